@@ -1,0 +1,1 @@
+export default defineNuxtConfig({ srcDir: ".", compatibilityDate: "2026-11-01" })
