@@ -1,0 +1,18 @@
+// Seeds the invented demo scenario into an empty database (demo mode only). Idempotent.
+import { useDB, closeDB, tables } from '../server/utils/db'
+import { hashPasswordForScript } from './lib/passwordHash'
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './lib/demoAccounts'
+
+const db = useDB()
+const passwordHash = await hashPasswordForScript(DEMO_PASSWORD)
+let created = 0
+for (const account of DEMO_ACCOUNTS) {
+  const rows = await db.insert(tables.users).values({ ...account, passwordHash })
+    .onConflictDoNothing().returning({ id: tables.users.id })
+  if (rows.length) {
+    created++
+    await db.insert(tables.auditLog).values({ action: 'user.seed_demo', entityType: 'user', entityId: String(rows[0]!.id), after: account })
+  }
+}
+console.log(`[tessera] demo accounts: ${created} created, ${DEMO_ACCOUNTS.length - created} already there`)
+await closeDB()
