@@ -60,7 +60,7 @@ try {
     }
     server = startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv })
     await waitForHttp(`${baseUrl}/api/health`)
-    const testEnv = { ...env, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir }
+    const testEnv = { ...env, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
     const projects = ['integration', 'e2e'].filter(wanted)
     add(vitest('integration+e2e', projects, testEnv))
   }
