@@ -24,7 +24,7 @@ export default defineNuxtConfig({
     publicBaseUrl: 'http://localhost:3000',
     session: {
       maxAge: 12 * 3600,
-      cookie: { sameSite: 'lax', httpOnly: true },
+      cookie: { sameSite: 'lax', httpOnly: true, secure: true },
     },
     public: { demoMode: false },
   },
