@@ -1,2 +1,3 @@
 export * from './users'
 export * from './audit'
+export * from './runs'
