@@ -9,8 +9,8 @@ import type { Direction, EnsembleStack, Grid } from './stack'
  * 'above' means x ≥ T, 'below' means x ≤ T. Row-major, same layout as the input.
  */
 export function eventField(grid: Grid, threshold: number, direction: Direction, out = new Uint8Array(grid.length)): Uint8Array {
-  if (direction === 'above') for (let k = 0; k < grid.length; k++) out[k] = grid[k]! >= threshold ? 1 : 0
-  else for (let k = 0; k < grid.length; k++) out[k] = grid[k]! <= threshold ? 1 : 0
+  if (direction === 'above') for (let k = 0; k < grid.length; k++) out[k] = +(grid[k]! >= threshold)
+  else for (let k = 0; k < grid.length; k++) out[k] = +(grid[k]! <= threshold)
   return out
 }
 
@@ -20,12 +20,14 @@ export function eventField(grid: Grid, threshold: number, direction: Direction, 
  */
 export function exceedanceProbability(stack: EnsembleStack, threshold: number, direction: Direction): Float64Array {
   const cells = stack.nx * stack.ny
-  const counts = new Float64Array(cells)
+  const counts = new Int32Array(cells)
+  // Branch-free counting: the comparison outcome is added as 0/1 (random fields defeat branch prediction).
   for (const grid of stack.members) {
-    if (direction === 'above') for (let k = 0; k < cells; k++) { if (grid[k]! >= threshold) counts[k]!++ }
-    else for (let k = 0; k < cells; k++) { if (grid[k]! <= threshold) counts[k]!++ }
+    if (direction === 'above') for (let k = 0; k < cells; k++) counts[k]! += +(grid[k]! >= threshold)
+    else for (let k = 0; k < cells; k++) counts[k]! += +(grid[k]! <= threshold)
   }
   const n = stack.members.length
-  for (let k = 0; k < cells; k++) counts[k] = counts[k]! / n
-  return counts
+  const out = new Float64Array(cells)
+  for (let k = 0; k < cells; k++) out[k] = counts[k]! / n
+  return out
 }

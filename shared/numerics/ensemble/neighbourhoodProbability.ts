@@ -7,8 +7,9 @@
  *           ("the chance of an event somewhere within R of here").
  * With R = 0 both equal the per-pixel exceedance probability.
  */
+import { dilateRow } from './bitRows'
 import { diskChords, type DiskChords } from './disk'
-import { eventField, exceedanceProbability } from './exceedance'
+import { exceedanceProbability } from './exceedance'
 import { neighbourhoodMean } from './neighbourhoodMean'
 import type { Direction, EnsembleStack } from './stack'
 
@@ -23,45 +24,69 @@ export function neighbourhoodEnsembleProbability(stack: EnsembleStack, threshold
 }
 
 /**
- * NMEP per pixel (row-major nx·ny) straight from the members: for each member, the event
- * field's row prefix counts tell in O(1) per chord whether any cell of the disk has an event.
- * Cost O(N·nx·ny·(2⌊R⌋ + 1)) at worst; rows with no event nearby are skipped.
+ * NMEP per pixel (row-major nx·ny) straight from the members. Each member's event field is
+ * packed into 32-cell words per row; each distinct chord half-width h gives a row dilation
+ * (windowed OR over [i − h, i + h]); a cell has an event in its disk when any row j + d,
+ * dilated by h(|d|), has its bit set. Cost O(N·nx·ny·(1 + ⌊R⌋·log R / 32)) word operations
+ * plus one comparison per member and cell.
  */
 export function neighbourhoodMaximumProbability(stack: EnsembleStack, threshold: number, direction: Direction,
   radius: number | DiskChords): Float64Array {
   const { nx, ny, members } = stack
   const { reach, halfWidth } = typeof radius === 'number' ? diskChords(radius) : radius
-  const cells = nx * ny
-  const stride = nx + 1
-  const events = new Uint8Array(cells)
-  const prefix = new Int32Array(stride * ny)
-  const rowTotal = new Int32Array(ny)
-  const counts = new Float64Array(cells)
+  const words = (nx + 31) >>> 5
+  const events = new Int32Array(words * ny)
+  // dilated[d] holds every row dilated by h(d); equal widths share one buffer.
+  const dilated: Int32Array[] = []
+  const owner: boolean[] = []
+  for (let d = 0; d <= reach; d++) {
+    const shared = d > 0 && halfWidth[d] === halfWidth[d - 1]
+    dilated.push(shared ? dilated[d - 1]! : new Int32Array(words * ny))
+    owner.push(!shared)
+  }
+  const a = new Int32Array(words)
+  const b = new Int32Array(words)
+  const c = new Int32Array(words)
+  const hitRow = new Int32Array(words)
+  const counts = new Int32Array(nx * ny)
+  const above = direction === 'above'
   for (const grid of members) {
-    eventField(grid, threshold, direction, events)
     for (let j = 0; j < ny; j++) {
-      let s = 0
-      for (let i = 0; i < nx; i++) { s += events[j * nx + i]!; prefix[j * stride + i + 1] = s }
-      rowTotal[j] = s
+      const o = j * nx
+      for (let w = 0; w < words; w++) {
+        const i0 = w << 5
+        const i1 = Math.min(nx, i0 + 32)
+        let bits = 0
+        if (above) for (let i = i0; i < i1; i++) bits |= +(grid[o + i]! >= threshold) << (i - i0)
+        else for (let i = i0; i < i1; i++) bits |= +(grid[o + i]! <= threshold) << (i - i0)
+        events[j * words + w] = bits
+      }
+    }
+    for (let d = 0; d <= reach; d++) {
+      if (!owner[d]) continue
+      for (let j = 0; j < ny; j++) dilateRow(events, j * words, dilated[d]!, j * words, words, halfWidth[d]!, a, b, c)
     }
     for (let j = 0; j < ny; j++) {
-      const d0 = Math.max(-reach, -j)
-      const d1 = Math.min(reach, ny - 1 - j)
-      let any = 0
-      for (let d = d0; d <= d1; d++) any += rowTotal[j + d]!
-      if (any === 0) continue
-      for (let i = 0; i < nx; i++) {
-        for (let d = d0; d <= d1; d++) {
-          const h = halfWidth[d < 0 ? -d : d]!
-          const lo = i - h < 0 ? 0 : i - h
-          const hi = i + h >= nx ? nx - 1 : i + h
-          const p = (j + d) * stride
-          if (prefix[p + hi + 1]! > prefix[p + lo]!) { counts[j * nx + i]!++; break }
+      hitRow.set(dilated[0]!.subarray(j * words, j * words + words))
+      for (let d = 1; d <= reach; d++) {
+        const g = dilated[d]!
+        if (j - d >= 0) for (let w = 0, s = (j - d) * words; w < words; w++) hitRow[w]! |= g[s + w]!
+        if (j + d < ny) for (let w = 0, s = (j + d) * words; w < words; w++) hitRow[w]! |= g[s + w]!
+      }
+      const o = j * nx
+      for (let w = 0; w < words; w++) {
+        let bits = hitRow[w]!
+        while (bits !== 0) {
+          const low = bits & -bits
+          const i = (w << 5) + 31 - Math.clz32(low)
+          if (i < nx) counts[o + i]!++
+          bits ^= low
         }
       }
     }
   }
   const n = members.length
-  for (let k = 0; k < cells; k++) counts[k] = counts[k]! / n
-  return counts
+  const out = new Float64Array(nx * ny)
+  for (let k = 0; k < out.length; k++) out[k] = counts[k]! / n
+  return out
 }

@@ -1,18 +1,20 @@
 /**
  * A product plan: the one-off preparation that makes a new threshold cheap.
  * Each pixel's N values are sorted once, so a probability map is one binary search per
- * pixel; NEP is the disk mean of that map (linearity); NMEP is the exceedance of the
- * per-member disk-extreme stack (the neighbourhood max of 1[x ≥ T] is 1[diskMax(x) ≥ T]),
- * sorted once per radius and direction and kept in a small cache. Before a radius is
- * prepared, NMEP falls back to the direct O(N·cells·R) computation.
+ * pixel (and percentiles are lookups); NEP is the disk mean of that map (linearity); NMEP is
+ * the exceedance of the per-member disk-extreme stack (the neighbourhood max of 1[x ≥ T] is
+ * 1[diskMax(x) ≥ T]), built once per radius and direction and kept in a small cache; a
+ * branch-free count over it is O(N·cells). Before a radius is prepared, NMEP falls back to
+ * the direct O(N·cells·R) computation from the members.
  */
 import { diskChords } from './disk'
-import { diskExtreme } from './diskExtreme'
+import { diskExtremeOperator } from './diskExtreme'
+import { exceedanceProbability } from './exceedance'
 import { ensembleMean, ensembleSpread } from './moments'
 import { neighbourhoodMean } from './neighbourhoodMean'
 import { neighbourhoodMaximumProbability } from './neighbourhoodProbability'
 import { DEFAULT_PERCENTILES, pixelPercentiles } from './percentiles'
-import { sortByPixel, sortedExceedance, sortGridsByPixel, type SortedStack } from './sortedStack'
+import { sortByPixel, sortedExceedance, type SortedStack } from './sortedStack'
 import { checkStack, type Direction, type EnsembleStack } from './stack'
 
 /** Probability maps for one threshold, direction and radius; row-major nx·ny, values in [0, 1]. */
@@ -38,7 +40,7 @@ export class ProductPlan {
   readonly stack: EnsembleStack
   readonly sorted: SortedStack
   private readonly cacheSize: number
-  private readonly extremes = new Map<string, SortedStack>()
+  private readonly extremes = new Map<string, EnsembleStack>()
   private meanGrid?: Float64Array
   private spreadGrid?: Float64Array
 
@@ -63,8 +65,8 @@ export class ProductPlan {
   }
 
   /**
-   * Builds and caches the sorted disk-max ('above') or disk-min ('below') stack for radius R
-   * (cells). Cost: N disk extremes plus one per-pixel sort; memory N·nx·ny values.
+   * Builds and caches the disk-max ('above') or disk-min ('below') stack for radius R cells.
+   * Cost: N disk extremes; memory N·nx·ny values (Float32 when the members are Float32, exact).
    */
   prepareNeighbourhood(radius: number, direction: Direction): void {
     const key = cacheKey(radius, direction)
@@ -73,8 +75,13 @@ export class ProductPlan {
     const { nx, ny, members } = this.stack
     const single = this.sorted.values instanceof Float32Array
     const extreme = direction === 'above' ? 'max' : 'min'
-    const sorted = sortGridsByPixel(members.length, nx * ny, single, (m) => diskExtreme(members[m]!, nx, ny, chords, extreme))
-    this.extremes.set(key, sorted)
+    const operator = diskExtremeOperator(nx, ny, chords)
+    const scratch = new Float64Array(nx * ny)
+    const grids = members.map((g) => {
+      const e = operator(g, extreme, scratch)
+      return single ? Float32Array.from(e) : Float64Array.from(e)
+    })
+    this.extremes.set(key, { nx, ny, members: grids })
     while (this.extremes.size > this.cacheSize) this.extremes.delete(this.extremes.keys().next().value!)
   }
 
@@ -89,7 +96,7 @@ export class ProductPlan {
     const nep = neighbourhoodMean(probability, nx, ny, chords)
     const prepared = this.extremes.get(cacheKey(radius, direction))
     const nmep = prepared
-      ? sortedExceedance(prepared, threshold, direction)
+      ? exceedanceProbability(prepared, threshold, direction)
       : neighbourhoodMaximumProbability(this.stack, threshold, direction, chords)
     return { threshold, direction, radius, probability, nep, nmep }
   }

@@ -107,3 +107,21 @@ describe('NEP and NMEP (Schwartz & Sobash 2017)', () => {
     for (let k = 0; k < maps.nep.length; k++) expect(maps.nmep[k]!).toBeGreaterThanOrEqual(maps.nep[k]! - 1e-15)
   })
 })
+
+describe('NMEP on rows wider than one 32-cell word', () => {
+  it('matches brute force for nx = 70 with radii below and above 32 cells (word-crossing shifts)', () => {
+    const stack = randomStack(99, 70, 4, 3)
+    for (const r of [1, 3, 7.5, 31, 33, 40]) for (const d of ['above', 'below'] as const) {
+      const ref = bruteNeighbourhood(stack, 7.5, d, r)
+      close(neighbourhoodMaximumProbability(stack, 7.5, d, r), ref.nmep)
+    }
+  })
+
+  it('keeps events at both row ends (column 0 and column nx − 1 of a 64-wide grid)', () => {
+    const g = new Float64Array(64 * 1)
+    g[0] = 1
+    g[63] = 1
+    const nmep = neighbourhoodMaximumProbability({ nx: 64, ny: 1, members: [g] }, 1, 'above', 3)
+    expect(Array.from(nmep).map((v, i) => (v ? i : -1)).filter((i) => i >= 0)).toEqual([0, 1, 2, 3, 60, 61, 62, 63])
+  })
+})
