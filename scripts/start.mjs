@@ -37,7 +37,10 @@ const serverEnv = {
   NUXT_PUBLIC_DEMO_MODE: production ? 'false' : 'true',
   NUXT_PUBLIC_BASE_URL: process.env.NUXT_PUBLIC_BASE_URL ?? `http://localhost:${port}`,
 }
-const children = [startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv })]
+const children = [
+  startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv }),
+  startChild('worker', 'npx', ['tsx', 'worker/index.ts'], { env }),
+]
 log(`Tessera is starting on http://localhost:${port} ${production ? '' : '(demo mode: accounts in README.md)'} — Ctrl-C stops it`)
 
 let stopping = false

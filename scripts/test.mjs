@@ -59,6 +59,7 @@ try {
       NUXT_SESSION_MAX_AGE_SECONDS: '43200',
     }
     server = startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv })
+    // Integration tests start and kill their own workers (recovery tests); none runs by default.
     await waitForHttp(`${baseUrl}/api/health`)
     const testEnv = { ...env, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
     const projects = ['integration', 'e2e'].filter(wanted)

@@ -7,6 +7,7 @@ import { listApiRoutes } from '../support/routes'
 import { call, signInAs } from '../support/http'
 
 type Who = 'anonymous' | Role
+const STAFF: Role[] = ['admin', 'duty_lead', 'forecaster']
 type Expected = Record<Who, number>
 
 const everyone = (status: number): Expected => ({ anonymous: status, admin: status, duty_lead: status, forecaster: status, stakeholder: status })
@@ -31,6 +32,14 @@ export const ROUTE_TABLE: { method: string; path: string; url?: string; body?: u
   { method: 'PATCH', path: '/api/users/:id', url: '/api/users/999999', body: {}, expected: only(['admin'], 400) },
   { method: 'POST', path: '/api/users/:id/invite', url: '/api/users/999999/invite', expected: only(['admin'], 404) },
   { method: 'GET', path: '/api/audit', expected: only(['admin', 'duty_lead'], 200) },
+  { method: 'GET', path: '/api/runs', expected: only(STAFF, 200) },
+  { method: 'POST', path: '/api/runs/uploads', expected: only(['admin', 'forecaster'], 400) },
+  { method: 'GET', path: '/api/runs/:id', url: '/api/runs/999999', expected: only(STAFF, 404) },
+  { method: 'DELETE', path: '/api/runs/:id', url: '/api/runs/999999', expected: only(['admin', 'forecaster'], 404) },
+  { method: 'POST', path: '/api/runs/:id/confirm', url: '/api/runs/999999/confirm', body: {}, expected: only(['admin', 'forecaster'], 400) },
+  { method: 'POST', path: '/api/runs/:id/downscale', url: '/api/runs/999999/downscale', body: {}, expected: only(['admin', 'forecaster'], 400) },
+  { method: 'POST', path: '/api/runs/:id/cancel', url: '/api/runs/999999/cancel', expected: only(STAFF, 404) },
+  { method: 'GET', path: '/api/runs/:id/tasks/:taskId', url: '/api/runs/999999/tasks/1', expected: only(STAFF, 404) },
 ]
 
 describe('route × role table', () => {

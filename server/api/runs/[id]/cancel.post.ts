@@ -1,0 +1,7 @@
+import { idParamSchema } from '#shared/schemas/auth'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'admin', 'duty_lead', 'forecaster')
+  const { id } = await getValidatedRouterParams(event, idParamSchema.parse)
+  return cancelRun(event, user, id)
+})

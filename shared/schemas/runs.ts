@@ -1,0 +1,21 @@
+import { z } from 'zod'
+
+export const KERNEL_CHOICES = ['auto', 'se', 'matern12', 'matern32', 'matern52'] as const
+
+export const confirmRunSchema = z.object({ name: z.string().trim().min(1, 'Give the run a name.').max(160) })
+
+export const downscaleSettingsSchema = z.object({
+  factor: z.number().int().min(2, 'The block factor is at least 2.').max(16, 'The block factor is at most 16.'),
+  samplesPerMember: z.number().int().min(1).max(100, 'At most 100 samples per member.'),
+  kernel: z.enum(KERNEL_CHOICES).default('auto'),
+  seed: z.number().int().min(0).max(2 ** 31 - 1).default(1),
+})
+export type DownscaleSettingsInput = z.infer<typeof downscaleSettingsSchema>
+
+export const uploadQuerySchema = z.object({ fileName: z.string().trim().min(1).max(255) })
+export const runTaskParamsSchema = z.object({ id: z.coerce.number().int().positive(), taskId: z.coerce.number().int().positive() })
+
+/** Bytes the packed samples of a run will take: int16 per fine cell per sample. */
+export function estimateSampleBytes(members: number, leadTimes: number, samplesPerMember: number, nx: number, ny: number, factor: number): number {
+  return members * leadTimes * samplesPerMember * nx * factor * ny * factor * 2
+}

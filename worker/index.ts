@@ -1,0 +1,76 @@
+// Tessera's job worker: claims downscaling tasks from the pg-boss queue and runs the numerics
+// on worker threads. Run as many of these as you like, on one machine or several sharing the
+// database; the run_tasks rows keep each member stored exactly once.
+//   DATABASE_URL=… npx tsx worker/index.ts      (npm start starts one beside the web server)
+import { hostname, availableParallelism } from 'node:os'
+import { randomBytes } from 'node:crypto'
+import { useBoss, stopBoss, DOWNSCALE_QUEUE, enqueueTasks, type DownscaleJob } from '../server/utils/jobs'
+import { closeDB } from '../server/utils/db'
+import { taskSeed } from '../shared/numerics/pipeline/downscaleMember'
+import { ThreadPool } from './threadPool'
+import { claimTask, completeTask, failTask, heartbeat, isRunActive, loadTaskInput, releaseAbandonedTasks, releaseOwnedTasks } from './taskStore'
+
+const workerId = `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
+const threads = Number(process.env.TESSERA_WORKER_THREADS ?? Math.max(1, availableParallelism()))
+const pool = new ThreadPool(threads)
+const owned = new Set<number>()
+const log = (msg: string) => console.log(`[worker ${workerId}] ${msg}`)
+
+async function runTask(taskId: number): Promise<void> {
+  const task = await claimTask(taskId, workerId)
+  if (!task) return // finished, owned by a live worker, or its run was cancelled
+  owned.add(taskId)
+  const started = Date.now()
+  try {
+    const { run, coarse } = await loadTaskInput(taskId)
+    const s = run.settings!
+    const output = await pool.run({
+      coarse, nx: run.grid.nx, ny: run.grid.ny, factor: s.factor, kernel: s.kernel,
+      samples: s.samplesPerMember, seed: taskSeed(s.seed, task.leadIndex, task.memberIndex), spacingKm: run.grid.spacingKm,
+    })
+    if (!(await isRunActive(run.id))) return // cancelled meanwhile: the result is dropped
+    const p = output.packed
+    const stored = await completeTask(taskId, workerId, {
+      fit: { ...output.fit, precision: p.precision, blockMeanError: output.blockMeanError, diagnostics: output.diagnostics },
+      samples: Buffer.from(p.data.buffer, p.data.byteOffset, p.data.byteLength),
+      sampleOffset: p.offset, sampleScale: p.scale, sampleCount: s.samplesPerMember,
+      fineNx: output.fineNx, fineNy: output.fineNy, elapsedMs: Date.now() - started,
+    })
+    log(`task ${taskId} (run ${run.id}, lead ${task.leadIndex}, member ${task.memberIndex}) ${stored ? 'stored' : 'discarded: taken over'} in ${Date.now() - started} ms`)
+  } catch (err) {
+    const message = err instanceof Error ? err.message : String(err)
+    log(`task ${taskId} failed: ${message}`)
+    await failTask(taskId, workerId, message)
+  } finally {
+    owned.delete(taskId)
+  }
+}
+
+const boss = await useBoss()
+for (let k = 0; k < threads; k++) {
+  await boss.work<DownscaleJob>(DOWNSCALE_QUEUE, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+    if (job) await runTask(job.data.taskId)
+  })
+}
+const beat = setInterval(() => { heartbeat([...owned], workerId).catch((e) => log(`heartbeat failed: ${e.message}`)) }, 5000)
+const sweep = setInterval(async () => {
+  try {
+    const released = await releaseAbandonedTasks()
+    for (const t of released) await enqueueTasks([t.id], t.attempts)
+    if (released.length) log(`re-queued ${released.length} abandoned task(s)`)
+  } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
+}, 10_000)
+log(`ready with ${threads} thread(s)`)
+
+async function shutdown() {
+  clearInterval(beat)
+  clearInterval(sweep)
+  const released = await releaseOwnedTasks([...owned], workerId)
+  for (const t of released) await enqueueTasks([t.id], t.attempts)
+  await stopBoss()
+  await pool.close()
+  await closeDB()
+  process.exit(0)
+}
+process.on('SIGTERM', shutdown)
+process.on('SIGINT', shutdown)
