@@ -1,0 +1,36 @@
+/**
+ * Block-mean correlation tables of the kernel families used in fitting, at unit variance, for a given
+ * length scale ℓ (fine cells). Layout of the 2-D table: as in grf/changeOfSupport.ts.
+ */
+import { coarseCovariance1d, isotropicCoarseCovarianceTable, separableCoarseCovarianceTable } from '../grf/changeOfSupport'
+import { correlationAt, decayRadius, type KernelName, type KernelParams } from '../grf/kernels'
+import '../grf/maternGeneral'
+
+/** Correlation below which the kernel is treated as exactly zero when building tables. */
+const NEGLIGIBLE_CORRELATION = 1e-17
+
+/** Radial correlation ρ(r), r in fine cells, as a small closure (closed forms inlined for speed). */
+export function radialCorrelation(kernel: KernelName, lengthScale: number, nu?: number): (r: number) => number {
+  switch (kernel) {
+    case 'se': { const c = -0.5 / (lengthScale * lengthScale); return (r) => Math.exp(c * r * r) }
+    case 'matern12': { const c = 1 / lengthScale; return (r) => Math.exp(-c * r) }
+    case 'matern32': { const c = Math.sqrt(3) / lengthScale; return (r) => { const s = c * r; return (1 + s) * Math.exp(-s) } }
+    case 'matern52': { const c = Math.sqrt(5) / lengthScale; return (r) => { const s = c * r; return (1 + s + s * s / 3) * Math.exp(-s) } }
+    case 'matern': { const p: KernelParams = { kernel, lengthScale, variance: 1, nu }; return (r) => correlationAt(p, r) }
+  }
+}
+
+/** 1-D block-mean correlation of the squared-exponential along one axis (index Δ + m − 1), for the Kronecker form. */
+export function seCoarseCorrelation1d(lengthScale: number, b: number, m: number): Float64Array {
+  return coarseCovariance1d(radialCorrelation('se', lengthScale), b, m)
+}
+
+/** Full 2-D block-mean correlation table of a kernel family at length scale ℓ (unit variance, no nugget). */
+export function coarseCorrelationTable(kernel: KernelName, lengthScale: number, b: number, mx: number, my: number, nu?: number): Float64Array {
+  if (kernel === 'se') {
+    const cx = seCoarseCorrelation1d(lengthScale, b, mx)
+    return separableCoarseCovarianceTable(cx, mx === my ? cx : seCoarseCorrelation1d(lengthScale, b, my))
+  }
+  const cutoff = decayRadius({ kernel, lengthScale, variance: 1, nu }, NEGLIGIBLE_CORRELATION)
+  return isotropicCoarseCovarianceTable(radialCorrelation(kernel, lengthScale, nu), b, mx, my, cutoff)
+}
