@@ -1,30 +1,19 @@
 /**
- * Seeded test randomness: mulberry32 uniforms (a well-known 32-bit generator, common
- * practice for reproducible tests) and Box–Muller normals (Box & Muller 1958).
+ * Seeded test randomness on the project's generators (xoshiro128** uniforms, ziggurat normals).
  */
+import { standardNormal } from '#shared/numerics/random/normal'
+import { Xoshiro128 } from '#shared/numerics/random/xoshiro128'
+
+/** Uniform doubles in [0, 1) from a seeded stream. */
 export function uniformGenerator(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
+  const rng = new Xoshiro128(seed)
+  return () => rng.nextDouble()
 }
 
-/** Standard normal draws from a seeded uniform stream. */
+/** Standard normal draws from a seeded stream. */
 export function normalGenerator(seed: number): () => number {
-  const u = uniformGenerator(seed)
-  let spare: number | undefined
-  return () => {
-    if (spare !== undefined) { const s = spare; spare = undefined; return s }
-    const u1 = 1 - u()
-    const u2 = u()
-    const r = Math.sqrt(-2 * Math.log(u1))
-    spare = r * Math.sin(2 * Math.PI * u2)
-    return r * Math.cos(2 * Math.PI * u2)
-  }
+  const rng = new Xoshiro128(seed)
+  return () => standardNormal(rng)
 }
 
 /** A stack of n random grids with values rounded to `decimals` (rounding creates ties). */
