@@ -14,6 +14,10 @@ declare module '#app' {
  * before the page loads. Every API route checks the session and role on the server itself.
  */
 export default defineNuxtRouteMiddleware((to) => {
+  // The server already decided the first page (and rendered any refusal); don't decide twice while hydrating.
+  const nuxtApp = useNuxtApp()
+  if (import.meta.client && nuxtApp.isHydrating && nuxtApp.payload.serverRendered) return
+
   const { loggedIn, user } = useUserSession()
 
   if (!loggedIn.value || !user.value) {
@@ -28,13 +32,12 @@ export default defineNuxtRouteMiddleware((to) => {
   if (allowed && !allowed.includes(user.value.role)) {
     const place = section ? `the ${section.label} section` : 'this page'
     const openTo = allowed.map((role) => ROLE_LABELS[role]).join(', ')
-    return abortNavigation(
-      createError({
-        status: 403,
-        statusText: 'Not available to your role',
-        message: `Your role, ${ROLE_LABELS[user.value.role]}, does not include ${place}. It is open to: ${openTo}.`,
-        fatal: true,
-      }),
-    )
+    // A fatal error returned from middleware stops the navigation and shows error.vue, on server and client alike.
+    return createError({
+      status: 403,
+      statusText: 'Not available to your role',
+      message: `Your role, ${ROLE_LABELS[user.value.role]}, does not include ${place}. It is open to: ${openTo}.`,
+      fatal: true,
+    })
   }
 })
