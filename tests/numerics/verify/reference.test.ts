@@ -8,6 +8,7 @@ import { percentileThreshold } from '../../../shared/numerics/verify/percentileT
 import { meanSquaredError } from '../../../shared/numerics/verify/squaredError'
 import { ensembleMean } from '../../../shared/numerics/ensemble/moments'
 import { sortByPixel } from '../../../shared/numerics/ensemble/sortedStack'
+import { radialSpectrum } from '../../../shared/numerics/verify/radialSpectrum'
 
 // Made by fixtures/make_verify_fixture.py with numpy/scipy (independent implementations).
 const ref = JSON.parse(readFileSync(fileURLToPath(new URL('./fixtures/verify_reference.json', import.meta.url)), 'utf8'))
@@ -38,5 +39,18 @@ describe('scores against numpy/scipy reference values', () => {
     expect(ensembleCrpsField(sorted, truth, 'fair').mean).toBeCloseTo(f.crpsFair, 13)
     expect(meanSquaredError(ensembleMean(stack), truth)).toBeCloseTo(f.mseOfMean, 12)
     for (const [p, v] of f.percentiles as number[][]) expect(percentileThreshold(truth, p!)).toBeCloseTo(v!, 13)
+  })
+})
+
+describe('radially averaged spectrum against numpy.fft', () => {
+  it('matches an independent numpy implementation of the same convention (no window and Hann)', () => {
+    const s = ref.spectrum
+    const field = Float64Array.from(s.field as number[])
+    for (const window of ['none', 'hann'] as const) {
+      const r = radialSpectrum(field, s.nx, s.ny, { window })
+      const expected = s[window] as number[]
+      expect(r.power.length).toBe(expected.length)
+      expected.forEach((v, k) => expect(r.power[k]! / v).toBeCloseTo(1, 12))
+    }
   })
 })
