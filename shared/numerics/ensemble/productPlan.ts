@@ -1,7 +1,8 @@
 /**
  * A product plan: the one-off preparation that makes a new threshold cheap.
- * Each pixel's N values are sorted once, so a probability map is one binary search per
- * pixel (and percentiles are lookups); NEP is the disk mean of that map (linearity); NMEP is
+ * Each pixel's N values are sorted once, on first need (percentiles, or sortPixels()), after
+ * which a probability map is one binary search per pixel and percentiles are lookups; before
+ * that, a branch-free count over the members serves; NEP is the disk mean of that map (linearity); NMEP is
  * the exceedance of the per-member disk-extreme stack (the neighbourhood max of 1[x ≥ T] is
  * 1[diskMax(x) ≥ T]), built once per radius and direction and kept in a small cache; a
  * branch-free count over it is O(N·cells). Before a radius is prepared, NMEP falls back to
@@ -38,25 +39,32 @@ export interface ProductPlanOptions {
 
 export class ProductPlan {
   readonly stack: EnsembleStack
-  readonly sorted: SortedStack
+  private sortedValues?: SortedStack
   private readonly cacheSize: number
   private readonly extremes = new Map<string, EnsembleStack>()
   private meanGrid?: Float64Array
   private spreadGrid?: Float64Array
 
-  /** Checks the stack (finite values, one shape) and sorts every pixel: the one-off cost. */
+  /** Checks the stack (finite values, one shape); nothing is sorted yet. */
   constructor(stack: EnsembleStack, options: ProductPlanOptions = {}) {
     checkStack(stack)
     this.stack = stack
-    this.sorted = sortByPixel(stack)
     this.cacheSize = Math.max(0, options.neighbourhoodCacheSize ?? 2)
   }
 
+  /** The pixel-major sorted values, sorting them now if not done yet (the one-off cost). */
+  get sorted(): SortedStack { return (this.sortedValues ??= sortByPixel(this.stack)) }
+
+  /** Sorts every pixel now (e.g. while the user is idle), so later maps use binary search. */
+  sortPixels(): void { void this.sorted }
+
   get n(): number { return this.stack.members.length }
 
-  /** Per-pixel exceedance probability, O(cells · log N). */
+  /** Per-pixel exceedance probability: O(cells · log N) once sorted, O(N · cells) before. */
   exceedance(threshold: number, direction: Direction): Float64Array {
-    return sortedExceedance(this.sorted, threshold, direction)
+    return this.sortedValues
+      ? sortedExceedance(this.sortedValues, threshold, direction)
+      : exceedanceProbability(this.stack, threshold, direction)
   }
 
   /** Whether NMEP at this radius and direction will use the prepared (fast) path. */
@@ -73,7 +81,7 @@ export class ProductPlan {
     const chords = diskChords(radius)
     if (isSingleCell(chords) || this.extremes.has(key)) return
     const { nx, ny, members } = this.stack
-    const single = this.sorted.values instanceof Float32Array
+    const single = members.every((g) => g instanceof Float32Array)
     const extreme = direction === 'above' ? 'max' : 'min'
     const operator = diskExtremeOperator(nx, ny, chords)
     const scratch = new Float64Array(nx * ny)

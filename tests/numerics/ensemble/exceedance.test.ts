@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { eventField, exceedanceProbability } from '#shared/numerics/ensemble/exceedance'
 import { crossingCount, sortByPixel, sortedExceedance } from '#shared/numerics/ensemble/sortedStack'
 import { checkStack, timeExtremeStack } from '#shared/numerics/ensemble/stack'
+import { ProductPlan } from '#shared/numerics/ensemble/productPlan'
 import { bruteProbability } from './bruteForce'
 import { randomStack } from './seededRandom'
 
@@ -16,6 +17,18 @@ describe('per-pixel exceedance probability', () => {
       expect(Array.from(exceedanceProbability(stack, t, d))).toEqual(expected)
       expect(Array.from(sortedExceedance(sortByPixel(stack), t, d))).toEqual(expected)
     }
+  })
+
+  it('product plan gives the same maps before and after sorting its pixels (count vs binary search)', () => {
+    const plan = new ProductPlan(stack)
+    const before = thresholds.map((t) => plan.probabilityMaps(t, 'below', 1.5))
+    plan.sortPixels()
+    thresholds.forEach((t, q) => {
+      const after = plan.probabilityMaps(t, 'below', 1.5)
+      expect(Array.from(after.probability)).toEqual(bruteProbability(stack, t, 'below'))
+      expect(Array.from(before[q]!.probability)).toEqual(Array.from(after.probability))
+      expect(Array.from(before[q]!.nep)).toEqual(Array.from(after.nep))
+    })
   })
 
   it('is inclusive on both sides: a value equal to T counts for above and for below', () => {
