@@ -1,12 +1,11 @@
 /**
  * A product plan: the one-off preparation that makes a new threshold cheap.
- * Each pixel's N values are sorted once, on first need (percentiles, or sortPixels()), after
- * which a probability map is one binary search per pixel and percentiles are lookups; before
- * that, a branch-free count over the members serves; NEP is the disk mean of that map (linearity); NMEP is
- * the exceedance of the per-member disk-extreme stack (the neighbourhood max of 1[x ≥ T] is
- * 1[diskMax(x) ≥ T]), built once per radius and direction and kept in a small cache; a
- * branch-free count over it is O(N·cells). Before a radius is prepared, NMEP falls back to
- * the direct O(N·cells·R) computation from the members.
+ *  - Per-pixel probability: a branch-free count over the members, O(N·cells); once the
+ *    pixels are sorted (on first need: percentiles, or sortPixels()) a binary search, O(cells·log N).
+ *  - NEP: the disk mean of the probability map (member and neighbourhood means are both linear).
+ *  - NMEP: the neighbourhood max of 1[x ≥ T] is 1[diskMax(x) ≥ T], so after
+ *    prepareNeighbourhood(R) it is an exceedance count over the cached disk-extreme stack;
+ *    before that, the direct bit-packed computation from the members.
  */
 import { diskChords } from './disk'
 import { diskExtremeOperator } from './diskExtreme'
