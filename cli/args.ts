@@ -21,3 +21,17 @@ export function numberOption(value: string | undefined, name: string, { integer 
   }
   return x
 }
+
+/**
+ * Rewrites `--name -2` as `--name=-2` for the given numeric options, so negative values
+ * (frost thresholds, percentiles of negative fields) are not mistaken for options by parseArgs.
+ */
+export function joinNegativeValues(argv: string[], names: readonly string[]): string[] {
+  const out: string[] = []
+  for (let k = 0; k < argv.length; k++) {
+    const next = argv[k + 1]
+    if (names.some((n) => argv[k] === `--${n}`) && next !== undefined && /^-(\d|\.\d|Infinity)/.test(next)) { out.push(`${argv[k]}=${next}`); k++ }
+    else out.push(argv[k]!)
+  }
+  return out
+}
