@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { crpsOfSorted, ensembleCrps, ensembleCrpsField, gaussianCrps } from '../../../shared/numerics/verify/crps'
 import { sortByPixel } from '../../../shared/numerics/ensemble/sortedStack'
+import { meanAbsoluteError } from '../../../shared/numerics/verify/absoluteError'
 import { normalSource, uniformSource } from './testRandom'
 
 /** O(N²) energy form (Gneiting & Raftery 2007, JASA 102:359, eq. 21): E|X − y| − ½E|X − X'|. */
@@ -41,6 +42,15 @@ describe('ensemble CRPS', () => {
         expect(ensembleCrps(x, y, 'fair')).toBeCloseTo(crpsEnergy(x, y, true), 12)
       }
     }
+  })
+
+  it('a one-member field forecast scores its mean absolute error (the deterministic baseline comparison)', () => {
+    const g = normalSource(6)
+    const f = Float64Array.from({ length: 30 }, g), truth = Float64Array.from({ length: 30 }, g)
+    let mae = 0
+    for (let k = 0; k < 30; k++) mae += Math.abs(f[k]! - truth[k]!) / 30
+    expect(meanAbsoluteError(f, truth)).toBeCloseTo(mae, 14)
+    expect(ensembleCrpsField(sortByPixel({ nx: 30, ny: 1, members: [f] }), truth, 'ensemble').mean).toBeCloseTo(mae, 14)
   })
 
   it('field mean over cells equals the per-cell scores averaged', () => {

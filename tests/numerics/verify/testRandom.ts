@@ -1,20 +1,13 @@
 /**
- * Seeded test randomness on the project's generators (xoshiro128** uniforms, ziggurat normals).
+ * Seeded test randomness on the project's generators (xoshiro128** uniforms, ziggurat normals),
+ * shared with the ensemble tests.
  */
-import { standardNormal } from '../../../shared/numerics/random/normal'
-import { Xoshiro128 } from '../../../shared/numerics/random/xoshiro128'
+import { normalGenerator, uniformGenerator } from '../ensemble/seededRandom'
 
-export function uniformSource(seed: number): () => number {
-  const rng = new Xoshiro128(seed)
-  return () => rng.nextDouble()
-}
+export { normalGenerator as normalSource, uniformGenerator as uniformSource }
 
-export function normalSource(seed: number): () => number {
-  const rng = new Xoshiro128(seed)
-  return () => standardNormal(rng)
-}
-
+/** n independent N(0, scale²) values from a seeded stream. */
 export function randomField(n: number, seed: number, scale = 1): Float64Array {
-  const g = normalSource(seed)
+  const g = normalGenerator(seed)
   return Float64Array.from({ length: n }, () => scale * g())
 }
