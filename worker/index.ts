@@ -8,7 +8,7 @@ import { useBoss, stopBoss, DOWNSCALE_QUEUE, enqueueTasks, type DownscaleJob } f
 import { closeDB } from '../server/utils/db'
 import { taskSeed } from '../shared/numerics/pipeline/downscaleMember'
 import { ThreadPool } from './threadPool'
-import { claimTask, completeTask, failTask, heartbeat, isRunActive, loadTaskInput, releaseAbandonedTasks, releaseOwnedTasks } from './taskStore'
+import { claimTask, completeTask, failTask, heartbeat, isRunActive, loadTaskInput, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS } from './taskStore'
 
 const workerId = `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
 const threads = Number(process.env.TESSERA_WORKER_THREADS ?? Math.max(1, availableParallelism()))
@@ -52,14 +52,14 @@ for (let k = 0; k < threads; k++) {
     if (job) await runTask(job.data.taskId)
   })
 }
-const beat = setInterval(() => { heartbeat([...owned], workerId).catch((e) => log(`heartbeat failed: ${e.message}`)) }, 5000)
+const beat = setInterval(() => { heartbeat([...owned], workerId).catch((e) => log(`heartbeat failed: ${e.message}`)) }, Math.min(5, STALE_AFTER_SECONDS / 3) * 1000)
 const sweep = setInterval(async () => {
   try {
     const released = await releaseAbandonedTasks()
     for (const t of released) await enqueueTasks([t.id], t.attempts)
     if (released.length) log(`re-queued ${released.length} abandoned task(s)`)
   } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
-}, 10_000)
+}, Math.min(10, STALE_AFTER_SECONDS / 2) * 1000)
 log(`ready with ${threads} thread(s)`)
 
 async function shutdown() {

@@ -3,8 +3,8 @@
 import { and, eq, inArray, lt, sql } from 'drizzle-orm'
 import { useDB, tables } from '../server/utils/db'
 
-/** A running task whose heartbeat is older than this is considered abandoned. */
-export const STALE_AFTER_SECONDS = 30
+/** A running task whose heartbeat is older than this is considered abandoned (TESSERA_TASK_STALE_SECONDS, default 30). */
+export const STALE_AFTER_SECONDS = Number(process.env.TESSERA_TASK_STALE_SECONDS ?? 30)
 
 /**
  * Claims a task for this worker: pending, or running but abandoned. Returns null when another

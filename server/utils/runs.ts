@@ -5,10 +5,8 @@ import type { User } from '#auth-utils'
 import { useDB, tables } from './db'
 import { recordAudit } from './audit'
 import { enqueueTasks } from './jobs'
-import { receiveUpload } from './uploads'
-import { readEnsembleFromPath, summariseRun } from '../ingest/readEnsemble'
-import { IngestError } from '../ingest/errors'
-import type { EnsembleRun } from '../ingest/types'
+import { maxUploadBytes, receiveUpload } from './uploads'
+import { IngestError, readEnsembleFromPath, summariseRun, type EnsembleRun } from '../ingest'
 import { estimateSampleBytes, type DownscaleSettingsInput } from '../../shared/schemas/runs'
 
 const notFound = (id: number) => createError({ statusCode: 404, statusMessage: 'Not Found', message: `There is no forecast run ${id}.` })
@@ -35,7 +33,7 @@ export async function stageUpload(event: H3Event, user: User, fileName: string) 
   const file = await receiveUpload(event)
   let parsed: EnsembleRun
   try {
-    parsed = await readEnsembleFromPath(file.path, { fileName })
+    parsed = await readEnsembleFromPath(file.path, { maxBytes: maxUploadBytes() })
   } catch (err) {
     if (err instanceof IngestError) throw createError({ statusCode: 422, statusMessage: 'Unprocessable Entity', message: err.message, data: { code: err.code } })
     throw err
