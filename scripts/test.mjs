@@ -57,11 +57,14 @@ try {
       TESSERA_TRUST_PROXY: 'true',
       // Short session lifetime is exercised by a dedicated test through this knob.
       NUXT_SESSION_MAX_AGE_SECONDS: '43200',
+      // Small cap so the oversized-upload test stays small; uploads land in a folder the tests inspect.
+      TESSERA_MAX_UPLOAD_MB: '2',
+      TESSERA_UPLOAD_DIR: join(resultsDir, 'uploads'),
     }
     server = startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv })
     // Integration tests start and kill their own workers (recovery tests); none runs by default.
     await waitForHttp(`${baseUrl}/api/health`)
-    const testEnv = { ...env, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
+    const testEnv = { ...env, TESSERA_UPLOAD_DIR: serverEnv.TESSERA_UPLOAD_DIR, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
     const projects = ['integration', 'e2e'].filter(wanted)
     add(vitest('integration+e2e', projects, testEnv))
   }

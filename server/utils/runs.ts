@@ -35,7 +35,7 @@ export async function stageUpload(event: H3Event, user: User, fileName: string) 
   try {
     parsed = await readEnsembleFromPath(file.path, { maxBytes: maxUploadBytes() })
   } catch (err) {
-    if (err instanceof IngestError) throw createError({ statusCode: 422, statusMessage: 'Unprocessable Entity', message: err.message, data: { code: err.code } })
+    if (err instanceof IngestError) throw createError({ statusCode: err.httpStatus, statusMessage: 'File refused', message: err.message, data: { code: err.code } })
     throw err
   } finally {
     await file.cleanup()

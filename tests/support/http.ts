@@ -13,17 +13,18 @@ export function freshAddress(): string {
   return `198.51.100.${(process.pid + addressCounter) % 250 + 1}`
 }
 
-export async function call(method: string, path: string, opts: { cookie?: string; body?: unknown; headers?: Record<string, string> } = {}): Promise<Reply> {
+export async function call(method: string, path: string, opts: { cookie?: string; body?: unknown; raw?: Uint8Array; headers?: Record<string, string> } = {}): Promise<Reply> {
   const res = await fetch(BASE_URL + path, {
     method,
     redirect: 'manual',
     headers: {
       accept: 'application/json',
       ...(opts.body !== undefined ? { 'content-type': 'application/json' } : {}),
+      ...(opts.raw !== undefined ? { 'content-type': 'application/octet-stream' } : {}),
       ...(opts.cookie ? { cookie: opts.cookie } : {}),
       ...opts.headers,
     },
-    body: opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
+    body: opts.raw !== undefined ? opts.raw : opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
   })
   const text = await res.text()
   let body: any = text
