@@ -6,6 +6,7 @@ export default defineNuxtConfig({
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
   css: ['~/assets/css/main.css'],
+  tailwindcss: { cssPath: '~/assets/css/main.css' },
   typescript: { strict: true },
   app: {
     head: {
