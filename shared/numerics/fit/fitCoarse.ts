@@ -36,6 +36,8 @@ export interface FitOptions {
   lengthScaleBounds?: [number, number]
   /** Nugget η: white-noise variance on each coarse cell as a fraction of σ² (default DEFAULT_NUGGET_RATIO). */
   nugget?: number
+  /** Split-cosine taper fraction for the Whittle likelihood (0 = none, 1 = Hann; default DEFAULT_WHITTLE_TAPER). */
+  whittleTaper?: number
 }
 
 export interface FitResult {
@@ -73,6 +75,8 @@ export interface FitResult {
  * cells. Noise-free se data are then fitted slightly low (bias measured in tests/numerics/fit).
  */
 export const DEFAULT_NUGGET_RATIO = 1e-10
+/** Default Whittle taper fraction (see whittleLikelihood.ts). */
+export const DEFAULT_WHITTLE_TAPER = 0.3
 /** Largest number of valid cells for which method 'auto' uses the dense exact likelihood (≈ 0.1 s per evaluation here). */
 export const AUTO_DENSE_MAX_CELLS = 700
 /** Longest side for which method 'auto' uses the Kronecker likelihood (two eigendecompositions of this size per evaluation). */
@@ -203,7 +207,7 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
   const lo = Math.log(bounds[0]), hi = Math.log(bounds[1])
 
   let whittleData: WhittleData | undefined
-  const whittle = () => (whittleData ??= prepareWhittle(field))
+  const whittle = () => (whittleData ??= prepareWhittle(field, opts.whittleTaper ?? DEFAULT_WHITTLE_TAPER))
   const fitWith = (kernel: KernelName, method: FitMethod) => fitKernel(field, factor, kernel, nu, method, nugget, lo, hi, whittle)
 
   let chosen: KernelFit
