@@ -1,3 +1,5 @@
 export * from './users'
 export * from './audit'
 export * from './runs'
+export * from './areas'
+export * from './hazards'
