@@ -6,9 +6,9 @@ import { hostname, availableParallelism } from 'node:os'
 import { randomBytes } from 'node:crypto'
 import { useBoss, stopBoss, DOWNSCALE_QUEUE, enqueueTasks, type DownscaleJob } from '../server/utils/jobs'
 import { closeDB } from '../server/utils/db'
-import { taskSeed } from '../shared/numerics/pipeline/downscaleMember'
 import { ThreadPool } from './threadPool'
-import { claimTask, completeTask, failTask, heartbeat, isRunActive, loadTaskInput, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS } from './taskStore'
+import { heartbeat, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS, unclaimedPendingTasks } from './taskStore'
+import { createTaskRunner } from './runTask'
 
 const workerId = `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
 const threads = Number(process.env.TESSERA_WORKER_THREADS ?? Math.max(1, availableParallelism()))
@@ -16,35 +16,7 @@ const pool = new ThreadPool(threads)
 const owned = new Set<number>()
 const log = (msg: string) => console.log(`[worker ${workerId}] ${msg}`)
 
-async function runTask(taskId: number): Promise<void> {
-  const task = await claimTask(taskId, workerId)
-  if (!task) return // finished, owned by a live worker, or its run was cancelled
-  owned.add(taskId)
-  const started = Date.now()
-  try {
-    const { run, coarse } = await loadTaskInput(taskId)
-    const s = run.settings!
-    const output = await pool.run({
-      coarse, nx: run.grid.nx, ny: run.grid.ny, factor: s.factor, kernel: s.kernel,
-      samples: s.samplesPerMember, seed: taskSeed(s.seed, task.leadIndex, task.memberIndex), spacingKm: run.grid.spacingKm,
-    })
-    if (!(await isRunActive(run.id))) return // cancelled meanwhile: the result is dropped
-    const p = output.packed
-    const stored = await completeTask(taskId, workerId, {
-      fit: { ...output.fit, precision: p.precision, blockMeanError: output.blockMeanError, diagnostics: output.diagnostics },
-      samples: Buffer.from(p.data.buffer, p.data.byteOffset, p.data.byteLength),
-      sampleOffset: p.offset, sampleScale: p.scale, sampleCount: s.samplesPerMember,
-      fineNx: output.fineNx, fineNy: output.fineNy, elapsedMs: Date.now() - started,
-    })
-    log(`task ${taskId} (run ${run.id}, lead ${task.leadIndex}, member ${task.memberIndex}) ${stored ? 'stored' : 'discarded: taken over'} in ${Date.now() - started} ms`)
-  } catch (err) {
-    const message = err instanceof Error ? err.message : String(err)
-    log(`task ${taskId} failed: ${message}`)
-    await failTask(taskId, workerId, message)
-  } finally {
-    owned.delete(taskId)
-  }
-}
+const runTask = createTaskRunner({ pool, workerId, owned, log })
 
 const boss = await useBoss()
 for (let k = 0; k < threads; k++) {
@@ -58,6 +30,7 @@ const sweep = setInterval(async () => {
     const released = await releaseAbandonedTasks()
     for (const t of released) await enqueueTasks([t.id], t.attempts)
     if (released.length) log(`re-queued ${released.length} abandoned task(s)`)
+    for (const t of await unclaimedPendingTasks()) await enqueueTasks([t.id], t.attempts)
   } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
 }, Math.min(10, STALE_AFTER_SECONDS / 2) * 1000)
 log(`ready with ${threads} thread(s)`)

@@ -101,3 +101,16 @@ export async function releaseOwnedTasks(taskIds: number[], workerId: string): Pr
     .where(and(inArray(tables.runTasks.id, taskIds), eq(tables.runTasks.workerId, workerId), eq(tables.runTasks.status, 'running')))
     .returning({ id: tables.runTasks.id, attempts: tables.runTasks.attempts })
 }
+
+/**
+ * Pending tasks of active runs that nobody claimed for a while (e.g. the web server died between
+ * committing the tasks and sending their jobs): their jobs are sent again (de-duplicated by key).
+ */
+export async function unclaimedPendingTasks(): Promise<{ id: number; attempts: number }[]> {
+  const rows = await useDB().execute(sql`
+    select t.id, t.attempts from run_tasks t join runs r on r.id = t.run_id
+    where t.status = 'pending' and r.status in ('queued', 'running')
+      and coalesce(t.heartbeat_at, r.updated_at) < now() - make_interval(secs => ${STALE_AFTER_SECONDS * 4})
+    limit 500`)
+  return (rows.rows as { id: number; attempts: number }[])
+}

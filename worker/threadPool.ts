@@ -14,8 +14,7 @@ export class ThreadPool {
   }
 
   private spawn() {
-    // Threads inherit the tsx loader through process.execArgv, so they run the TypeScript directly.
-    const w = new Worker(new URL('./computeThread.ts', import.meta.url))
+    const w = new Worker(new URL('./computeThread.mjs', import.meta.url))
     w.unref()
     this.all.push(w)
     this.idle.push(w)

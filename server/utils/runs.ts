@@ -5,6 +5,7 @@ import type { User } from '#auth-utils'
 import { useDB, tables } from './db'
 import { recordAudit } from './audit'
 import { enqueueTasks } from './jobs'
+import { createRunTasks, insertParsedRun } from './runRecords'
 import { maxUploadBytes, receiveUpload } from './uploads'
 import { IngestError, readEnsembleFromPath, summariseRun, type EnsembleRun } from '../ingest'
 import { estimateSampleBytes, type DownscaleSettingsInput } from '../../shared/schemas/runs'
@@ -13,17 +14,6 @@ const notFound = (id: number) => createError({ statusCode: 404, statusMessage: '
 const conflict = (message: string) => createError({ statusCode: 409, statusMessage: 'Conflict', message })
 
 type RunRow = typeof tables.runs.$inferSelect
-
-/** Outer polygon of the grid in lon-lat (GeoJSON), or null when it crosses the antimeridian. */
-function footprintGeoJson(corners: [number, number][]): string | null {
-  const lons = corners.map((c) => c[0])
-  if (Math.max(...lons) - Math.min(...lons) > 180) return null
-  return JSON.stringify({ type: 'Polygon', coordinates: [[...corners, corners[0]]] })
-}
-
-function toFloat32Bytes(a: Float32Array): Buffer {
-  return Buffer.from(a.buffer, a.byteOffset, a.byteLength)
-}
 
 /**
  * Receives an upload, reads and validates it completely, then stores it as a staged run
@@ -43,25 +33,9 @@ export async function stageUpload(event: H3Event, user: User, fileName: string) 
   const db = useDB()
   // Staged copies nobody confirmed within a day are dropped, so abandoned previews don't pile up.
   await db.delete(tables.runs).where(and(eq(tables.runs.status, 'staged'), lt(tables.runs.createdAt, sql`now() - interval '1 day'`)))
-  const footprint = footprintGeoJson(parsed.corners)
-  const run = await db.transaction(async (tx) => {
-    const [row] = await tx.insert(tables.runs).values({
-      name: fileName.replace(/\.[^.]+$/, ''),
-      status: 'staged', format: parsed.format, sourceFileName: fileName, sourceSha256: file.sha256, sourceBytes: file.bytes,
-      variable: parsed.variable, standardName: parsed.standardName, units: parsed.units, canonicalUnits: parsed.canonicalUnits,
-      displayUnits: parsed.displayUnits, members: parsed.members, leadTimes: parsed.leadTimes, forecastPeriodsHours: parsed.forecastPeriodsHours,
-      referenceTime: parsed.referenceTime ? new Date(parsed.referenceTime) : null, heightM: parsed.heightM ?? null, cellMethods: parsed.cellMethods ?? null,
-      grid: { ...parsed.grid, x: Array.from(parsed.grid.x), y: Array.from(parsed.grid.y) },
-      extent: parsed.extent, corners: parsed.corners, notes: parsed.notes,
-      footprint: footprint ? sql`ST_SetSRID(ST_GeomFromGeoJSON(${footprint}), 4326)` as unknown as string : null,
-      uploadedById: user.id,
-    }).returning()
-    const rows = parsed.fields.map((data, k) => ({
-      runId: row!.id, leadIndex: Math.floor(k / parsed.members), memberIndex: k % parsed.members, data: toFloat32Bytes(data),
-    }))
-    for (let k = 0; k < rows.length; k += 50) await tx.insert(tables.runFields).values(rows.slice(k, k + 50))
-    return row!
-  })
+  const run = await db.transaction((tx) => insertParsedRun(tx, parsed, {
+    name: fileName.replace(/\.[^.]+$/, ''), status: 'staged', sourceFileName: fileName, sourceSha256: file.sha256, sourceBytes: file.bytes, uploadedById: user.id,
+  }))
   return { run: runSummary(run), preview: summariseRun(parsed) }
 }
 
@@ -100,13 +74,9 @@ export async function startDownscaling(event: H3Event, user: User, id: number, s
       if (!existing) throw notFound(id)
       throw conflict(existing.status === 'staged' ? 'Confirm the upload before downscaling.' : `This run is ${existing.status}; it cannot be started again now.`)
     }
-    await tx.delete(tables.runTasks).where(eq(tables.runTasks.runId, id))
-    const rows = []
-    for (let l = 0; l < run.leadTimes.length; l++) for (let m = 0; m < run.members; m++) rows.push({ runId: id, leadIndex: l, memberIndex: m })
-    const inserted = []
-    for (let k = 0; k < rows.length; k += 200) inserted.push(...await tx.insert(tables.runTasks).values(rows.slice(k, k + 200)).returning({ id: tables.runTasks.id }))
+    const ids = await createRunTasks(tx, id, run.leadTimes.length, run.members)
     await recordAudit({ actor: user, action: 'run.downscale', entityType: 'run', entityId: id, after: settings }, event, tx)
-    return inserted.map((r) => r.id)
+    return ids
   })
   // Jobs are sent after the commit; a task without a job is re-queued by the worker's sweeper.
   await enqueueTasks(taskIds)
