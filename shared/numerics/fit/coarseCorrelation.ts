@@ -22,7 +22,9 @@ export function radialCorrelation(kernel: KernelName, lengthScale: number, nu?: 
 
 /** 1-D block-mean correlation of the squared-exponential along one axis (index Δ + m − 1), for the Kronecker form. */
 export function seCoarseCorrelation1d(lengthScale: number, b: number, m: number): Float64Array {
-  return coarseCovariance1d(radialCorrelation('se', lengthScale), b, m)
+  // Entries below the negligible level are set to 0: far se lags reach subnormal numbers, which make the
+  // eigendecomposition and products many times slower without changing any result.
+  return coarseCovariance1d(radialCorrelation('se', lengthScale), b, m).map((v) => (v < NEGLIGIBLE_CORRELATION ? 0 : v))
 }
 
 /** Full 2-D block-mean correlation table of a kernel family at length scale ℓ (unit variance, no nugget). */

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { DEFAULT_NUGGET_RATIO, fitCoarseField, type FitResult } from '../../../shared/numerics/fit/fitCoarse'
 import { covarianceFunction, type KernelName } from '../../../shared/numerics/grf/kernels'
-import { blockMeans, coarseSampler, fineFieldSampler, meanAndSpread, seKroneckerSampler } from './synthetic'
+import { blockAverage as blockMeans } from '../../../shared/numerics/interp/blockAverage'
+import { coarseSampler, fineFieldSampler, meanAndSpread, seKroneckerSampler } from './synthetic'
 
 /**
  * Replicate study: fits R seeded replicates and returns the estimates, the mean reported standard error

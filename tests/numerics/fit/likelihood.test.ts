@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest'
-import { Matrix, determinant, inverse } from 'ml-matrix'
+import { EigenvalueDecomposition, Matrix, determinant, inverse } from 'ml-matrix'
 import { prepareCoarseField } from '../../../shared/numerics/fit/coarseField'
 import { coarseCorrelationTable } from '../../../shared/numerics/fit/coarseCorrelation'
 import { denseLogLikelihood, validCellCorrelation } from '../../../shared/numerics/fit/denseLikelihood'
-import { kroneckerLogLikelihood } from '../../../shared/numerics/fit/kroneckerLikelihood'
+import { kroneckerLogLikelihood, toeplitzEigen } from '../../../shared/numerics/fit/kroneckerLikelihood'
 import { expectedPeriodogram, prepareWhittle, whittleLogLikelihood } from '../../../shared/numerics/fit/whittleLikelihood'
 import { coarseSampler } from './synthetic'
 
@@ -62,6 +62,23 @@ describe('Kronecker likelihood for se on a complete grid (Saatçi 2011)', () => 
       expect(Math.abs(kron.logLikelihood - dense.logLikelihood)).toBeLessThan(1e-7 * Math.abs(dense.logLikelihood))
       expect(Math.abs(kron.mean - dense.mean)).toBeLessThan(1e-8)
       expect(Math.abs(kron.variance / dense.variance - 1)).toBeLessThan(1e-8)
+    }
+  })
+
+  it('centrosymmetric split eigendecomposition reconstructs T and matches ml-matrix eigenvalues (n = 1, 2, 7, 8)', () => {
+    for (const n of [1, 2, 7, 8]) {
+      const c = Float64Array.from({ length: 2 * n - 1 }, (_, k) => Math.exp(-Math.abs(k - n + 1) / 2.5) + (k === n - 1 ? 0.1 : 0))
+      const { values, vectors } = toeplitzEigen(c, n)
+      const T = new Matrix(n, n)
+      for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) T.set(i, k, c[i - k + n - 1]!)
+      const Q = new Matrix(n, n)
+      for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) Q.set(i, k, vectors[i * n + k]!)
+      const rebuilt = Q.mmul(Matrix.diag(Array.from(values))).mmul(Q.transpose())
+      expect(Math.max(...rebuilt.sub(T).abs().to1DArray())).toBeLessThan(1e-13)
+      expect(Math.max(...Q.transpose().mmul(Q).sub(Matrix.eye(n)).abs().to1DArray())).toBeLessThan(1e-13)
+      const ref = new EigenvalueDecomposition(T, { assumeSymmetric: true }).realEigenvalues.sort((a, b) => a - b)
+      const ours = Array.from(values).sort((a, b) => a - b)
+      for (let k = 0; k < n; k++) expect(Math.abs(ours[k]! - ref[k]!)).toBeLessThan(1e-13)
     }
   })
 

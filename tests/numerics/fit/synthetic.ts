@@ -64,14 +64,6 @@ export function fineFieldSampler(cov: (dx: number, dy: number) => number, nx: nu
   }
 }
 
-/** Exact b×b block means of a fine row-major nx×ny field (nx, ny multiples of b): the coarse field y = A x. */
-export function blockMeans(fine: Float64Array, nx: number, ny: number, b: number): Float64Array {
-  const mx = nx / b, my = ny / b
-  const y = new Float64Array(mx * my)
-  for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) y[Math.floor(j / b) * mx + Math.floor(i / b)]! += fine[j * nx + i]! / (b * b)
-  return y
-}
-
 /** Mean and standard deviation (n − 1) of a list. */
 export function meanAndSpread(values: number[]): { mean: number; sd: number } {
   const mean = values.reduce((s, v) => s + v, 0) / values.length
