@@ -4,8 +4,8 @@
  *
  * The fine window (wx×wy cells) sits in the corner of an Nx×Ny torus. The torus covariance is the
  * kernel at the minimum-image offset, so on the window it equals the plane covariance exactly for
- * every lag shorter than N − R, where R is the kernel's decay radius: with N ≥ max(W + R, 2R) every
- * lag of the window is either exact or beyond R on both sides (|k| below the decay tolerance).
+ * every lag shorter than N/2, and to the decay tolerance for every lag shorter than N − R, where R
+ * is the kernel's decay radius (see `torusSide` for the two sizes this allows).
  * The torus covariance matrix is circulant: its eigenvalues λ(k) are the 2-D DFT of its first row.
  * Negative eigenvalues are set to zero only when that changes no covariance entry by more than a
  * stated bound (Σ|λ₋|/M, see `clampBound`); otherwise the torus is enlarged (doubled) and, after
@@ -42,13 +42,19 @@ export interface CirculantEmbedding {
 
 /**
  * Smallest admissible torus side for a window of `window` fine cells, decay radius `radius` (fine cells)
- * and block factor b: ≥ max(window + radius, 2·radius), a multiple of b, and of the form oddPart(b)·2^k
- * so the FFT stays on fast radix-2/4 passes plus one small odd step.
+ * and block factor b, a multiple of b of the form oddPart(b)·2^k (fast radix-2/4 FFT passes plus one
+ * small odd step). Two sizes are exact on the window: max(window + radius, 2·radius), where every
+ * window lag is either exact or beyond the decay radius, and the minimal embedding 2·window, where
+ * every window lag is shorter than half the torus and so taken at its true offset (Dietrich & Newsam
+ * 1997). The smaller one is used: long length scales (radius ≫ window) take the minimal embedding,
+ * whose positive semi-definiteness is then checked by `embedCovariance` (and the torus doubled if
+ * it fails), as the method requires.
  */
 export function torusSide(window: number, radius: number, b: number): number {
-  const need = Math.max(window + Math.ceil(radius), 2 * Math.ceil(radius), 2)
-  const r = oddPart(b)
-  let n = r
+  const r = Math.ceil(radius)
+  const need = Math.max(Math.min(Math.max(window + r, 2 * r), 2 * window), 2)
+  const odd = oddPart(b)
+  let n = odd
   while (n < need || n % b !== 0) n *= 2
   return n
 }

@@ -3,7 +3,7 @@
  * likelihood), then draw conditional fine-scale samples (conditioning by kriging) and pack them.
  * Pure: used by the job worker's threads, the demo seeding and the command line alike.
  */
-import { fitCoarseField, type FitResult } from '../fit/fitCoarse'
+import { defaultLengthScaleBounds, fitCoarseField, type FitResult } from '../fit/fitCoarse'
 import { createDownscaler } from '../grf/downscaler'
 import type { KernelName } from '../grf/kernels'
 import { packInt16, type PackedInt16 } from '../io/packInt16'
@@ -20,7 +20,16 @@ export interface DownscaleMemberInput {
   seed: number
   /** Coarse grid spacing, km (to report ℓ in km). */
   spacingKm: number
+  /**
+   * Upper bound of the length-scale search, in coarse cells (default 5). Longer scales are already
+   * fixed by the coarse field itself, and would make the sampling torus very large; a member whose
+   * fit reaches the bound is flagged (atBound = 'upper').
+   */
+  maxLengthScaleCoarseCells?: number
 }
+
+/** Default cap on the fitted length scale, in coarse cells (see DownscaleMemberInput). */
+export const DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS = 5
 
 export interface MemberFit extends Omit<FitResult, 'profile'> {
   /** ℓ in km on the fine grid. */
@@ -50,7 +59,9 @@ export function taskSeed(runSeed: number, leadIndex: number, memberIndex: number
 export function downscaleMember(input: DownscaleMemberInput): DownscaleMemberOutput {
   const { nx, ny, factor } = input
   const coarse = Float64Array.from(input.coarse)
-  const fit = fitCoarseField(coarse, nx, ny, { factor, kernel: input.kernel })
+  const [lower, upper] = defaultLengthScaleBounds(nx, ny, factor)
+  const cap = (input.maxLengthScaleCoarseCells ?? DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS) * factor
+  const fit = fitCoarseField(coarse, nx, ny, { factor, kernel: input.kernel, lengthScaleBounds: [lower, Math.max(lower * 2, Math.min(upper, cap))] })
   const kmPerFine = input.spacingKm / factor
   const downscaler = createDownscaler({
     coarse, nx, ny, factor,
