@@ -45,7 +45,7 @@ try {
     cluster = startCluster({ dataDir, port: Number(process.env.TESSERA_TEST_PG_PORT ?? 54330), database: 'tessera_test', throwaway: true })
     const env = { ...process.env, DATABASE_URL: cluster.url, NUXT_DATABASE_URL: cluster.url }
     run('npx', ['tsx', 'scripts/migrate.ts'], { env })
-    run('npx', ['tsx', 'scripts/seed-demo.ts'], { env })
+    run('npx', ['tsx', 'scripts/seed-demo.ts'], { env: { ...env, TESSERA_DEMO_SIZE: 'small' } })
     buildIfNeeded()
     const port = Number(process.env.TESSERA_TEST_PORT ?? 3300)
     const baseUrl = `http://localhost:${port}`
