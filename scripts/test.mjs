@@ -5,13 +5,16 @@ import { join } from 'node:path'
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { randomBytes } from 'node:crypto'
 import { spawnSync } from 'node:child_process'
-import { ROOT, log, run, ensureNodeModules, ensureDebianPackages, startChild, waitForHttp } from './lib/system.mjs'
+import { ROOT, log, run, ensureNodeModules, ensureDebianPackages, startChild, waitForHttp, acquireLock } from './lib/system.mjs'
 
 ensureNodeModules()
+const releaseLock = await acquireLock('tessera-npm-test')
 const { ensurePostgresInstalled, resolveDataDir, startCluster, removeCluster } = await import('./lib/postgres.mjs')
 const { buildIfNeeded, SERVER_ENTRY } = await import('./lib/app.mjs')
 ensurePostgresInstalled()
 ensureDebianPackages(['chromium'], ['/usr/bin/chromium'])
+// pdftotext, pdftoppm and pdffonts check the briefing PDFs.
+ensureDebianPackages(['poppler-utils'], ['/usr/bin/pdftotext', '/usr/bin/pdftoppm', '/usr/bin/pdffonts'])
 
 const resultsDir = join(ROOT, 'test-results')
 rmSync(resultsDir, { recursive: true, force: true })
@@ -79,4 +82,5 @@ try {
 
 log(`artefacts (screenshots, reports) in ${resultsDir}`)
 console.log(`\nTotal: ${totals.passed} passed, ${totals.failed} failed`)
+releaseLock()
 process.exit(totals.failed === 0 ? 0 : 1)

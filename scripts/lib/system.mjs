@@ -67,3 +67,34 @@ export async function waitForHttp(url, timeoutMs = 60_000) {
   }
   throw new Error(`${url} did not answer within ${timeoutMs / 1000} s`)
 }
+
+/**
+ * A machine-wide lock (a folder in the temporary directory with the holder's pid), so that two
+ * `npm test` runs on one machine wait for each other instead of fighting over ports and cores.
+ * A lock whose holder has died is taken over.
+ */
+export async function acquireLock(name, { waitMs = 45 * 60_000 } = {}) {
+  const { mkdirSync, writeFileSync, readFileSync, rmSync } = await import('node:fs')
+  const { tmpdir } = await import('node:os')
+  const dir = `${tmpdir()}/${name}.lock`
+  const end = Date.now() + waitMs
+  let told = false
+  for (;;) {
+    try {
+      mkdirSync(dir)
+      writeFileSync(`${dir}/pid`, String(process.pid))
+      const release = () => rmSync(dir, { recursive: true, force: true })
+      process.on('exit', release)
+      return release
+    } catch {
+      let holder = NaN
+      try { holder = Number(readFileSync(`${dir}/pid`, 'utf8')) } catch { /* being written */ }
+      let alive = false
+      try { if (holder) { process.kill(holder, 0); alive = true } } catch { alive = false }
+      if (holder && !alive) { rmSync(dir, { recursive: true, force: true }); continue }
+      if (Date.now() > end) throw new Error(`gave up waiting for ${dir} (held by pid ${holder})`)
+      if (!told) { log(`waiting for another run to finish (${dir}, pid ${holder})…`); told = true }
+      await new Promise((r) => setTimeout(r, 1000))
+    }
+  }
+}
