@@ -14,22 +14,12 @@ import { areaMask } from '../shared/numerics/ensemble/areaMask'
 import { areaProducts } from '../shared/numerics/ensemble/areaProducts'
 import { ProductPlan } from '../shared/numerics/ensemble/productPlan'
 import type { Direction } from '../shared/numerics/ensemble/stack'
-import { numberOption, parseOptions, UsageError } from './args'
+import { numberOption, parseOptions, UsageError, joinNegativeValues } from './args'
 import { readGridFile, readMembersFile, toJsonArray, writeJson } from './gridFiles'
 
-/** Lets `--threshold -2` mean `--threshold=-2` (frost thresholds are negative; parseArgs would call it ambiguous). */
-function joinNegativeNumbers(argv: string[]): string[] {
-  const out: string[] = []
-  for (let k = 0; k < argv.length; k++) {
-    const next = argv[k + 1]
-    if ((argv[k] === '--threshold' || argv[k] === '--radius') && next !== undefined && /^-(\d|\.\d|Infinity)/.test(next)) { out.push(`${argv[k]}=${next}`); k++ }
-    else out.push(argv[k]!)
-  }
-  return out
-}
 
 export async function run(argv: string[]): Promise<void> {
-  const { values, positionals } = parseOptions(joinNegativeNumbers(argv), {
+  const { values, positionals } = parseOptions(joinNegativeValues(argv, ['threshold', 'radius']), {
     members: { type: 'string' },
     threshold: { type: 'string' },
     below: { type: 'boolean' },
