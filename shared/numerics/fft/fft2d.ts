@@ -52,6 +52,22 @@ function checkShape(a: Float64Array, nx: number, ny: number, name: string): void
   if (a.length !== nx * ny) throw new Error(`${name} has length ${a.length}, expected nx·ny = ${nx * ny}`)
 }
 
+/**
+ * Pruned 2-D DFT for fields that are zero outside rows 0…rows−1 (forward), or whose result is only
+ * needed on rows 0…rows−1 (inverse): the row pass skips the other rows. Same conventions as fft2d.
+ * Used for circulant products of a window embedded in a larger torus.
+ */
+export function fft2dRowPruned(re: Float64Array, im: Float64Array, nx: number, ny: number, rows: number, inverse = false): void {
+  checkShape(re, nx, ny, 're'); checkShape(im, nx, ny, 'im')
+  if (!inverse) {
+    if (nx > 1) transformRows(re, im, nx, rows, inverse)
+    if (ny > 1) transformColumns(re, im, nx, ny, nx, inverse)
+  } else {
+    if (ny > 1) transformColumns(re, im, nx, ny, nx, inverse)
+    if (nx > 1) transformRows(re, im, nx, rows, inverse)
+  }
+}
+
 function transformRows(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
   const plan = complexFftPlan(nx)
   const buf = new Float64Array(2 * nx), out = new Float64Array(2 * nx)

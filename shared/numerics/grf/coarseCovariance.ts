@@ -5,7 +5,7 @@
  * [min γ, max γ] of the torus symbol γ. Coarse vectors are row-major nx×ny (index J·nx + I);
  * missing cells are excluded by zeroing them (observed[k] = 0).
  */
-import { fft2d } from '../fft/fft2d'
+import { fft2d, fft2dRowPruned } from '../fft/fft2d'
 
 export interface CoarseSolveResult {
   solutions: Float64Array[]
@@ -60,13 +60,23 @@ export class CoarseCovariance {
   /** out[j] ← C·input[j] for one or two vectors (two are packed into one complex FFT pair). */
   apply(input: Float64Array[], out: Float64Array[]): void {
     for (let start = 0; start < input.length; start += 2) {
-      const a = input[start]!, b = input[start + 1]
-      this.applyComplex(a, b, out[start]!, start + 1 < input.length ? out[start + 1]! : undefined)
+      this.applyComplex(this.symbol, input[start]!, input[start + 1], out[start]!, start + 1 < input.length ? out[start + 1]! : undefined)
     }
   }
 
-  private applyComplex(a: Float64Array, b: Float64Array | undefined, outA: Float64Array, outB: Float64Array | undefined): void {
-    const { nx, ny, torusNx: tx, torusNy: ty, bufRe: re, bufIm: im, observed, symbol } = this
+  /** out[j] ← P Γ⁻¹ Pᵀ input[j]: the inverse of the torus circulant restricted to the window (a preconditioner). */
+  applyTorusInverse(input: Float64Array[], out: Float64Array[]): void {
+    if (!this.inverseSymbol) this.inverseSymbol = this.symbol.map((v) => (v > 0 ? 1 / v : 0))
+    for (let start = 0; start < input.length; start += 2) {
+      this.applyComplex(this.inverseSymbol, input[start]!, input[start + 1], out[start]!, start + 1 < input.length ? out[start + 1]! : undefined)
+    }
+  }
+
+  private inverseSymbol?: Float64Array
+
+  /** Circulant product with a given symbol on the window (masked), two real vectors per complex FFT pair. */
+  private applyComplex(symbol: Float64Array, a: Float64Array, b: Float64Array | undefined, outA: Float64Array, outB: Float64Array | undefined): void {
+    const { nx, ny, torusNx: tx, torusNy: ty, bufRe: re, bufIm: im, observed } = this
     re.fill(0); im.fill(0)
     for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
       const k = j * nx + i
@@ -74,9 +84,10 @@ export class CoarseCovariance {
       re[j * tx + i] = a[k]!
       if (b) im[j * tx + i] = b[k]!
     }
-    fft2d(re, im, tx, ty)
+    // Input lives on rows < ny and only rows < ny of the output are read: prune the row passes.
+    fft2dRowPruned(re, im, tx, ty, ny)
     for (let k = 0; k < re.length; k++) { re[k]! *= symbol[k]!; im[k]! *= symbol[k]! }
-    fft2d(re, im, tx, ty, true)
+    fft2dRowPruned(re, im, tx, ty, ny, true)
     for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
       const k = j * nx + i
       outA[k] = observed[k] ? re[j * tx + i]! : 0

@@ -42,6 +42,8 @@ export interface DownscalerDiagnostics {
   /** Filled by std(): method and a bound on |std − exact std| (0 = exact to rounding). */
   stdMethod?: PosteriorStdResult['method']
   stdErrorBound?: number
+  /** Window method: certified bound away from the grid edges. */
+  stdInteriorErrorBound?: number
   stdWindow?: number
 }
 
@@ -122,6 +124,7 @@ class TorusDownscaler implements Downscaler {
       this.diagnostics.stdMethod = result.method
       this.diagnostics.stdErrorBound = result.errorBound
       this.diagnostics.stdWindow = result.window
+      this.diagnostics.stdInteriorErrorBound = result.interiorErrorBound
       if (options) return result.std
       this.cachedStd = result.std
     }

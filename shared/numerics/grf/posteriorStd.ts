@@ -6,7 +6,7 @@
  *    sum over eigenpairs of products of 1-D terms, i.e. three small matrix products (Saatçi 2011).
  *  - 'dense': exact, v_iᵀC⁻¹v_i = ‖L⁻¹v_i‖² with the Cholesky factor L of C; O(W·m²), small grids only.
  *  - 'window' (large non-separable grids): see windowPosteriorVariance.ts; exact when the window covers
- *    the grid, otherwise each variance comes with a certified two-sided bound.
+ *    the grid, otherwise never below the exact std, with a certified bound (tight away from the edges).
  * All methods use the torus model of the set-up (the embedded kernel, including any nugget).
  */
 import { fft2d } from '../fft/fft2d'
@@ -16,23 +16,26 @@ import type { ConditioningModel } from './conditioningModel'
 import { DenseCoarseSolver } from './denseCoarseSolver'
 import { KroneckerCoarseSolver } from './kroneckerCoarseSolver'
 import { boxTransfer } from './torusBlockOperator'
+import { blockResponse, torusPointVariance } from './blockResponse'
 import { windowPosteriorVariance } from './windowPosteriorVariance'
 
 export interface PosteriorStdOptions {
   method?: 'auto' | 'kronecker' | 'dense' | 'window'
-  /** Window method: accepted certified bound on each variance, as a fraction of k(0) (default 1e-8). */
+  /** Window method: accepted certified bound on each variance, as a fraction of k(0) (default 1e-6). */
   tolerance?: number
   /** Window method: fixed window side in coarse cells (default: grown until the bound meets the tolerance). */
   window?: number
-  /** Window method: largest window side tried (default 31). */
+  /** Window method: largest window side tried (default 25). */
   maxWindow?: number
 }
 
 export interface PosteriorStdResult {
   std: Float64Array
   method: 'kronecker' | 'dense' | 'window'
-  /** Bound on |std − exact std| over all pixels (0 when exact to rounding). */
+  /** Certified bound on |std − exact std| over all pixels (0 when exact to rounding). */
   errorBound: number
+  /** Window method: the certified bound away from the grid edges (see windowPosteriorVariance.ts). */
+  interiorErrorBound?: number
   /** Window side used (window method). */
   window?: number
 }
@@ -51,27 +54,7 @@ export function posteriorStd(model: ConditioningModel, options: PosteriorStdOpti
   const work = model.fineNx * model.fineNy * model.covariance.observedCount ** 2
   if (method === 'dense' || (method === 'auto' && work <= DENSE_WORK_LIMIT)) return { std: denseStd(model), method: 'dense', errorBound: 0 }
   const result = windowPosteriorVariance(model, options)
-  return { std: result.variance.map((v) => Math.sqrt(Math.max(v, 0))), method: 'window', errorBound: result.stdErrorBound, window: result.window }
-}
-
-/** k(0) of the torus model: Σλ / M. */
-export function torusPointVariance(model: ConditioningModel): number {
-  let s = 0
-  for (const v of model.lambda) s += v
-  return s / model.lambda.length
-}
-
-/**
- * u0 = K Aᵀ e₀ on the fine torus (row-major Nx×Ny): the covariance of every fine cell with the mean of
- * block (0, 0). By stationarity cov(x_i, y_B) = u0(i − b·B) (indices modulo the torus).
- */
-export function blockResponse(model: ConditioningModel): Float64Array {
-  const { embedding: e, blocks, lambda } = model
-  const re = new Float64Array(lambda.length), im = new Float64Array(lambda.length)
-  const ones = new Float64Array(blocks.coarseNx * blocks.coarseNy).fill(1)
-  blocks.addLiftedCoarse(re, im, lambda, ones, new Float64Array(ones.length))
-  fft2d(re, im, e.nx, e.ny, true)
-  return re
+  return { std: result.variance.map((v) => Math.sqrt(Math.max(v, 0))), method: 'window', errorBound: result.stdErrorBound, interiorErrorBound: result.interiorStdErrorBound, window: result.window }
 }
 
 function denseStd(model: ConditioningModel): Float64Array {
