@@ -15,10 +15,12 @@ import { coarseSampler, seKroneckerSampler } from '../tests/numerics/fit/synthet
 
 const N = 128, B = 8
 
-function timed<T>(fn: () => T): [T, number] {
-  const t0 = performance.now()
+/** Result, wall-clock ms and CPU ms of this process (the CPU figure is immune to other load on the machine). */
+function timed<T>(fn: () => T): [T, number, number] {
+  const t0 = performance.now(), c0 = process.cpuUsage()
   const out = fn()
-  return [out, performance.now() - t0]
+  const c = process.cpuUsage(c0)
+  return [out, performance.now() - t0, (c.user + c.system) / 1000]
 }
 
 /** Median time of `repeats` runs (ms). */
@@ -42,36 +44,38 @@ export async function bench(): Promise<Record<string, number | string | boolean>
   const fftData = Float64Array.from({ length: pad * pad }, (_, k) => Math.sin(k * 0.001))
   realFft2d(fftData, pad, pad) // warm-up
   const fftMs = medianTime(() => realFft2d(fftData, pad, pad), 3)
+  const fftCpuMs = timed(() => realFft2d(fftData, pad, pad))[2]
 
-  const fit = (y: Float64Array, opts: Omit<FitOptions, 'factor'>): [FitResult, number] => timed(() => fitCoarseField(y, N, N, { factor: B, ...opts }))
+  const fit = (y: Float64Array, opts: Omit<FitOptions, 'factor'>) => timed(() => fitCoarseField(y, N, N, { factor: B, ...opts }))
   const rows: [string, string][] = []
-  const out: Record<string, number | string | boolean> = { fftPadded2048Ms: fftMs }
-  const record = (key: string, r: FitResult, ms: number, truth: number) => {
+  const out: Record<string, number | string | boolean> = { fftPadded2048Ms: fftMs, fftPadded2048CpuMs: fftCpuMs }
+  const record = (key: string, r: FitResult, ms: number, truth: number, cpuMs: number) => {
     out[`${key}Ms`] = ms
+    out[`${key}CpuMs`] = cpuMs
     out[`${key}Evaluations`] = r.totalEvaluations
     out[`${key}MsPerEvaluation`] = ms / r.totalEvaluations
     out[`${key}RatioToFft`] = ms / fftMs
     out[`${key}LengthScale`] = r.lengthScale
     out[`${key}Truth`] = truth
     out[`${key}Method`] = r.method
-    rows.push([key, `${ms.toFixed(0)} ms, ${r.totalEvaluations} evals (${(ms / r.totalEvaluations).toFixed(1)} ms each), ${(ms / fftMs).toFixed(2)}× FFT; ${r.method}, ${r.kernel}: ℓ = ${r.lengthScale.toFixed(3)} [${r.lengthScaleInterval.map((v) => v.toFixed(2)).join(', ')}] ± ${r.standardError.toFixed(3)} vs truth ${truth}`])
+    rows.push([key, `${ms.toFixed(0)} ms (CPU ${cpuMs.toFixed(0)}), ${r.totalEvaluations} evals (${(ms / r.totalEvaluations).toFixed(1)} ms each), ${(ms / fftMs).toFixed(2)}× FFT; ${r.method}, ${r.kernel}: ℓ = ${r.lengthScale.toFixed(3)} [${r.lengthScaleInterval.map((v) => v.toFixed(2)).join(', ')}] ± ${r.standardError.toFixed(3)} vs truth ${truth}`])
   }
 
   // se, ℓ = 16 fine cells (2 coarse cells).
   const ySe = seKroneckerSampler(16, B, N, N, 4, 10)(2024)
   fit(ySe, { kernel: 'se' }) // warm-up of the JIT on the same path
-  const [seFit, seMs] = fit(ySe, { kernel: 'se' })
-  record('se', seFit, seMs, 16)
-  const [seWhittle, seWhittleMs] = fit(ySe, { kernel: 'se', method: 'whittle' })
-  record('seWhittle', seWhittle, seWhittleMs, 16)
+  const [seFit, seMs, seCpu] = fit(ySe, { kernel: 'se' })
+  record('se', seFit, seMs, 16, seCpu)
+  const [seWhittle, seWhittleMs, seWhittleCpu] = fit(ySe, { kernel: 'se', method: 'whittle' })
+  record('seWhittle', seWhittle, seWhittleMs, 16, seWhittleCpu)
 
   // matern32, ℓ = 24 fine cells (3 coarse cells), from a fine field.
   const [yM, genMs] = timed(() => matern32Coarse(24, 7))
   fit(yM, { kernel: 'matern32' })
-  const [mFit, mMs] = fit(yM, { kernel: 'matern32' })
-  record('matern32', mFit, mMs, 24)
-  const [autoFit, autoMs] = fit(yM, { kernel: 'auto' })
-  record('auto', autoFit, autoMs, 24)
+  const [mFit, mMs, mCpu] = fit(yM, { kernel: 'matern32' })
+  record('matern32', mFit, mMs, 24, mCpu)
+  const [autoFit, autoMs, autoCpu] = fit(yM, { kernel: 'auto' })
+  record('auto', autoFit, autoMs, 24, autoCpu)
   out.autoKernel = autoFit.kernel
 
   // Exact vs Whittle on one dataset each: se at 128² (Kronecker), matern32 at 24² (dense).
@@ -86,7 +90,7 @@ export async function bench(): Promise<Record<string, number | string | boolean>
   out.matern32Small24DiffOverSe = (whittleSmall.lengthScale - exactSmall.lengthScale) / Math.hypot(whittleSmall.standardError, exactSmall.standardError)
   out.fitUnder1s = seMs < 1000 && mMs < 1000
 
-  rows.unshift(['FFT 2048² (real)', `${fftMs.toFixed(0)} ms`])
+  rows.unshift(['FFT 2048² (real)', `${fftMs.toFixed(0)} ms (CPU ${fftCpuMs.toFixed(0)})`])
   rows.push(['se: Whittle − exact', `${out.seWhittleMinusExactOverSe.toFixed(2)} combined standard errors`])
   rows.push(['matern32 24², exact vs Whittle', `ℓ ${exactSmall.lengthScale.toFixed(3)} (${exactSmallMs.toFixed(0)} ms) vs ${whittleSmall.lengthScale.toFixed(3)} (${whittleSmallMs.toFixed(0)} ms): ${out.matern32Small24DiffOverSe.toFixed(2)} combined s.e.`])
   rows.push(['matern32 data', `1024² unconditional field by circulant embedding in ${genMs.toFixed(0)} ms`])

@@ -1,6 +1,6 @@
 /**
  * `tessera fit --in coarse.json --factor B [--kernel se|matern12|matern32|matern52|matern|auto]
- *   [--nu V] [--method auto|exact|whittle] [--nugget ETA] [--min-length-scale L] [--max-length-scale L]`
+ *   [--nu V] [--method auto|exact|whittle] [--nugget ETA|estimate] [--min-length-scale L] [--max-length-scale L]`
  * Fits the fine-field covariance to a coarse grid of b×b block means by maximum likelihood and prints JSON:
  * kernel, lengthScale (fine-grid cells), variance, mean, logLikelihood, lengthScaleInterval, and the
  * diagnostics of shared/numerics/fit/fitCoarse.ts (standardError, atBound, method, profile, …).
@@ -31,7 +31,13 @@ export async function run(argv: string[]): Promise<void> {
   if (!(METHODS as readonly string[]).includes(method)) throw new UsageError(`--method must be one of ${METHODS.join(', ')}, got "${method}"`)
   const nu = values.nu === undefined ? undefined : numberOption(values.nu, 'nu', { min: 0 })
   if (kernel === 'matern' && nu === undefined) throw new UsageError('--kernel matern needs --nu (the smoothness)')
-  const nugget = values.nugget === undefined ? undefined : numberOption(values.nugget, 'nugget', { min: 0 })
+  // Nugget: white-noise variance per coarse cell as a fraction of σ², or "estimate" (default for se).
+  let nugget: number | 'estimate' | undefined
+  if (values.nugget === 'estimate') nugget = 'estimate'
+  else if (values.nugget !== undefined) {
+    nugget = Number(values.nugget)
+    if (!(nugget >= 0 && Number.isFinite(nugget))) throw new UsageError(`--nugget must be a number ≥ 0 or "estimate", got "${values.nugget}"`)
+  }
   const grid = readGridFile(values.in)
   const [lo, hi] = defaultLengthScaleBounds(grid.nx, grid.ny, factor)
   const bounds: [number, number] = [

@@ -30,20 +30,31 @@ export function validCellCorrelation(field: CoarseField, table: Float64Array, nu
 
 /**
  * Profile log-likelihood (μ, σ² profiled) from the unit-variance block-mean correlation `table`
- * (layout of grf/changeOfSupport.ts, sized for the field's grid). −Infinity if R is not numerically
- * positive definite.
+ * (layout of grf/changeOfSupport.ts, sized for the field's grid), as a function of the nugget η.
+ * Every η needs its own factorisation. −Infinity if R + ηI is not numerically positive definite.
  */
-export function denseLogLikelihood(field: CoarseField, table: Float64Array, nugget: number): ProfiledFit {
+export function denseProfile(field: CoarseField, table: Float64Array): (nugget: number) => ProfiledFit {
   const m = field.valid.length
   if (m > DENSE_MAX_CELLS) throw new Error(`exact dense likelihood is limited to ${DENSE_MAX_CELLS} valid cells, got ${m}`)
-  let L: Float64Array
-  try { L = choleskyFactor(validCellCorrelation(field, table, nugget), m) } catch {
-    return { logLikelihood: -Infinity, mean: NaN, variance: NaN }
+  const R0 = validCellCorrelation(field, table, 0)
+  const y = Float64Array.from(field.valid, (k) => field.centred[k]!)
+  return (nugget) => {
+    const R = nugget === 0 ? R0 : Float64Array.from(R0)
+    if (nugget !== 0) for (let p = 0; p < m; p++) R[p * m + p]! += nugget
+    let L: Float64Array
+    try { L = choleskyFactor(R, m) } catch {
+      return { logLikelihood: -Infinity, mean: NaN, variance: NaN }
+    }
+    // With R = L Lᵀ: z = L⁻¹y, u = L⁻¹1 give every quadratic form as a dot product.
+    const z = forwardSubstitute(L, m, Float64Array.from(y))
+    const u = forwardSubstitute(L, m, new Float64Array(m).fill(1))
+    let qyy = 0, q1y = 0, q11 = 0
+    for (let k = 0; k < m; k++) { qyy += z[k]! * z[k]!; q1y += u[k]! * z[k]!; q11 += u[k]! * u[k]! }
+    return profileFromQuadraticForms(qyy, q1y, q11, logDetFromCholesky(L, m), m, field.offset)
   }
-  // With R = L Lᵀ: z = L⁻¹y, u = L⁻¹1 give every quadratic form as a dot product.
-  const z = forwardSubstitute(L, m, Float64Array.from(field.valid, (k) => field.centred[k]!))
-  const u = forwardSubstitute(L, m, new Float64Array(m).fill(1))
-  let qyy = 0, q1y = 0, q11 = 0
-  for (let k = 0; k < m; k++) { qyy += z[k]! * z[k]!; q1y += u[k]! * z[k]!; q11 += u[k]! * u[k]! }
-  return profileFromQuadraticForms(qyy, q1y, q11, logDetFromCholesky(L, m), m, field.offset)
+}
+
+/** denseProfile(field, table) at one nugget η. */
+export function denseLogLikelihood(field: CoarseField, table: Float64Array, nugget: number): ProfiledFit {
+  return denseProfile(field, table)(nugget)
 }

@@ -3,7 +3,8 @@
  *
  * The coarse field y (nx×ny, row-major, NaN = missing) is modelled as exact b×b block means of a
  * stationary Gaussian field with constant mean μ, variance σ² and kernel k(·; ℓ): y ~ N(μ1, σ²R(ℓ) + η σ² I),
- * with R(ℓ) the block-mean correlation from the change-of-support table and η a small stated nugget.
+ * with R(ℓ) the block-mean correlation from the change-of-support table and η a nugget (fixed and small,
+ * or estimated: profiled over ln η by a grid and Brent at every ℓ).
  * μ and σ² are profiled out in closed form; ℓ (fine cells) is found by a log-spaced grid over bounds set
  * from the grid size, refined by Brent's bounded method (Brent 1973) in ln ℓ. Reported: the estimates, the
  * maximised log-likelihood, a ~95% profile-likelihood interval for ℓ ({ℓ : 2(ℓ̂max − ℓ) ≤ χ²₁,0.95}),
@@ -16,10 +17,10 @@ import { minimizeBounded } from '../optimize/brentMinimize'
 import { findRootBracketed } from '../optimize/brentRoot'
 import { coarseCorrelationTable } from './coarseCorrelation'
 import { prepareCoarseField, type CoarseField } from './coarseField'
-import { DENSE_MAX_CELLS, denseLogLikelihood } from './denseLikelihood'
-import { kroneckerLogLikelihood } from './kroneckerLikelihood'
+import { DENSE_MAX_CELLS, denseProfile } from './denseLikelihood'
+import { kroneckerProfile } from './kroneckerLikelihood'
 import type { ProfiledFit } from './profileLikelihood'
-import { prepareWhittle, whittleLogLikelihood, type WhittleData } from './whittleLikelihood'
+import { prepareWhittle, whittleProfile, type WhittleData } from './whittleLikelihood'
 
 export type FitMethod = 'exact' | 'kronecker' | 'whittle'
 
@@ -34,8 +35,11 @@ export interface FitOptions {
   nu?: number
   /** Search interval for ℓ in fine cells (default: 0.1 coarse cell to half the longer side of the domain). */
   lengthScaleBounds?: [number, number]
-  /** Nugget η: white-noise variance on each coarse cell as a fraction of σ² (default DEFAULT_NUGGET_RATIO). */
-  nugget?: number
+  /**
+   * Nugget η: white-noise variance on each coarse cell as a fraction of σ², or 'estimate' (profiled over
+   * [NUGGET_RANGE]). Default: 'estimate' for se, DEFAULT_NUGGET_RATIO for the Matérn families (see below).
+   */
+  nugget?: number | 'estimate'
   /** Split-cosine taper fraction for the Whittle likelihood (0 = none, 1 = Hann; default DEFAULT_WHITTLE_TAPER). */
   whittleTaper?: number
 }
@@ -60,9 +64,11 @@ export interface FitResult {
   evaluations: number
   totalEvaluations: number
   profile: { lengthScale: number; logLikelihood: number }[]
-  candidates?: { kernel: KernelName; logLikelihood: number; lengthScale: number; method: FitMethod }[]
-  /** η used (coarse-cell white noise / σ²). */
+  /** Every family tried by kernel 'auto', with its maximised log-likelihood and AIC (the choice: lowest AIC). */
+  candidates?: { kernel: KernelName; logLikelihood: number; aic: number; lengthScale: number; method: FitMethod; nuggetEstimated: boolean }[]
+  /** η used or estimated (coarse-cell white noise / σ²). */
   nuggetRatio: number
+  nuggetEstimated: boolean
   /** The same nugget as a fine-grid variance for KernelParams.nugget: η·b²·σ̂² (fine white noise averages down by b²). */
   nugget: number
   lengthScaleBounds: [number, number]
@@ -70,11 +76,18 @@ export interface FitResult {
 }
 
 /**
- * Default nugget ratio η. Small enough to leave Matérn fits unchanged; large enough to keep R + ηI positive
- * definite for the squared-exponential, whose block-mean correlation is singular to rounding once ℓ ≳ 2 coarse
- * cells. Noise-free se data are then fitted slightly low (bias measured in tests/numerics/fit).
+ * Fixed nugget ratio η used by default for the Matérn families: large enough to keep R + ηI positive definite,
+ * small enough not to matter (Matérn spectra decay algebraically: measured, data noise of 1e-6·σ² leaves ℓ̂
+ * unchanged, 1e-4·σ² lowers matern52 ℓ̂ by ~10%). The squared-exponential is different: its block-mean
+ * correlation is singular to rounding once ℓ ≳ 2 coarse cells and its fit is then governed by the noise floor of
+ * the data (measured: noise 1e-6·σ² moved ℓ = 4 coarse cells to 6.1 under a fixed η = 1e-10), so for se the
+ * nugget is estimated by default.
  */
 export const DEFAULT_NUGGET_RATIO = 1e-10
+/** Range of an estimated nugget ratio η. */
+export const NUGGET_RANGE: [number, number] = [1e-12, 1]
+/** Largest number of valid cells for which method 'auto' uses the dense likelihood with an estimated nugget (one factorisation per trial η). */
+export const AUTO_DENSE_ESTIMATE_MAX_CELLS = 300
 /** Default Whittle taper fraction (see whittleLikelihood.ts). */
 export const DEFAULT_WHITTLE_TAPER = 0.3
 /** Largest number of valid cells for which method 'auto' uses the dense exact likelihood (≈ 0.1 s per evaluation here). */
@@ -82,7 +95,7 @@ export const AUTO_DENSE_MAX_CELLS = 700
 /** Longest side for which method 'auto' uses the Kronecker likelihood (two eigendecompositions of this size per evaluation). */
 export const AUTO_KRONECKER_MAX_SIDE = 512
 /** Points of the initial log-spaced grid in ℓ. */
-const GRID_POINTS = 13
+const GRID_POINTS = 9
 /** Half the 0.95 quantile of χ² with one degree of freedom (3.841458820694124, scipy.stats.chi2.ppf(0.95, 1)). */
 const HALF_CHI2_95 = 3.841458820694124 / 2
 /** Brent tolerance in ln ℓ (0.01% in ℓ). */
@@ -97,7 +110,7 @@ export function defaultLengthScaleBounds(nx: number, ny: number, factor: number)
 }
 
 /** The likelihood each kernel gets under a requested method (see FitOptions.method). */
-export function chooseMethod(requested: 'auto' | 'exact' | 'whittle', kernel: KernelName, field: CoarseField): FitMethod {
+export function chooseMethod(requested: 'auto' | 'exact' | 'whittle', kernel: KernelName, field: CoarseField, estimateNugget = false): FitMethod {
   const kronecker = kernel === 'se' && field.complete
   const m = field.valid.length
   if (requested === 'whittle') return 'whittle'
@@ -107,25 +120,50 @@ export function chooseMethod(requested: 'auto' | 'exact' | 'whittle', kernel: Ke
     throw new Error(`exact likelihood needs at most ${DENSE_MAX_CELLS} valid cells (got ${m}) unless the kernel is se on a complete grid; use method "whittle"`)
   }
   if (kronecker && Math.max(field.nx, field.ny) <= AUTO_KRONECKER_MAX_SIDE) return 'kronecker'
-  return m <= AUTO_DENSE_MAX_CELLS ? 'exact' : 'whittle'
+  return m <= (estimateNugget ? AUTO_DENSE_ESTIMATE_MAX_CELLS : AUTO_DENSE_MAX_CELLS) ? 'exact' : 'whittle'
 }
 
-interface Evaluated { x: number; fit: ProfiledFit }
+/** The nugget a kernel gets: the option if given, else estimated for se and DEFAULT_NUGGET_RATIO otherwise. */
+function nuggetFor(option: FitOptions['nugget'], kernel: KernelName): number | 'estimate' {
+  return option ?? (kernel === 'se' ? 'estimate' : DEFAULT_NUGGET_RATIO)
+}
 
-/** Profile log-likelihood as a function of ℓ for one kernel and method, counting and recording its calls. */
-function likelihoodOf(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number, whittle: () => WhittleData) {
+/** Steps of the initial grid in log₁₀ η and the Brent tolerance there. */
+const NUGGET_GRID_STEP = 3
+const NUGGET_LOG_TOLERANCE = 0.05
+
+/** Maximises a profile over log₁₀ η ∈ log₁₀ NUGGET_RANGE: grid, then Brent between the best point's neighbours. */
+function maximiseNugget(profile: (nugget: number) => ProfiledFit): { fit: ProfiledFit; nugget: number } {
+  const lo = Math.log10(NUGGET_RANGE[0]), hi = Math.log10(NUGGET_RANGE[1])
+  const seen: { t: number; fit: ProfiledFit }[] = []
+  const at = (t: number) => { const fit = profile(10 ** t); seen.push({ t, fit }); return fit }
+  for (let t = lo; t <= hi + 1e-9; t += NUGGET_GRID_STEP) at(t)
+  let best = seen[0]!
+  for (const e of seen) if (e.fit.logLikelihood > best.fit.logLikelihood) best = e
+  const a = Math.max(lo, best.t - NUGGET_GRID_STEP), b = Math.min(hi, best.t + NUGGET_GRID_STEP)
+  const interior = best.t > lo && best.t < hi
+  minimizeBounded((t) => -at(t).logLikelihood, a, b, { tolerance: NUGGET_LOG_TOLERANCE, start: interior ? { x: best.t, value: -best.fit.logLikelihood } : undefined })
+  for (const e of seen) if (e.fit.logLikelihood > best.fit.logLikelihood) best = e
+  return { fit: best.fit, nugget: 10 ** best.t }
+}
+
+interface Evaluated { x: number; fit: ProfiledFit; nugget: number }
+
+/** Profile log-likelihood as a function of x = ln ℓ for one kernel and method, recording every call. */
+function likelihoodOf(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', whittle: () => WhittleData) {
   const { nx, ny } = field
   const history: Evaluated[] = []
   const evaluate = (x: number): ProfiledFit => {
     const l = Math.exp(x)
-    let fit: ProfiledFit
-    if (method === 'kronecker') fit = kroneckerLogLikelihood(field, factor, l, nugget)
+    let profile: (nugget: number) => ProfiledFit
+    if (method === 'kronecker') profile = kroneckerProfile(field, factor, l)
     else {
       const table = coarseCorrelationTable(kernel, l, factor, nx, ny, nu)
-      fit = method === 'exact' ? denseLogLikelihood(field, table, nugget) : whittleLogLikelihood(whittle(), table, nugget)
+      profile = method === 'exact' ? denseProfile(field, table) : whittleProfile(whittle(), table)
     }
-    history.push({ x, fit })
-    return fit
+    const e: Evaluated = nugget === 'estimate' ? { x, ...maximiseNugget(profile) } : { x, fit: profile(nugget), nugget }
+    history.push(e)
+    return e.fit
   }
   return { evaluate, history }
 }
@@ -133,6 +171,7 @@ function likelihoodOf(field: CoarseField, factor: number, kernel: KernelName, nu
 interface KernelFit {
   kernel: KernelName
   method: FitMethod
+  nugget: number | 'estimate'
   best: Evaluated
   history: Evaluated[]
 }
@@ -158,11 +197,11 @@ function bestOf(history: Evaluated[]): Evaluated {
   return best
 }
 
-function fitKernel(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number, lo: number, hi: number, whittle: () => WhittleData): KernelFit {
+function fitKernel(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', lo: number, hi: number, whittle: () => WhittleData): KernelFit {
   const { evaluate, history } = likelihoodOf(field, factor, kernel, nu, method, nugget, whittle)
   const best = maximise(evaluate, history, lo, hi)
   if (!Number.isFinite(best.fit.logLikelihood)) throw new Error(`likelihood could not be evaluated for kernel ${kernel} anywhere in the search interval (try a larger nugget)`)
-  return { kernel, method, best, history }
+  return { kernel, method, nugget, best, history }
 }
 
 /**
@@ -192,8 +231,9 @@ function intervalEnd(evaluate: (x: number) => ProfiledFit, history: Evaluated[],
 export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number, opts: FitOptions): FitResult {
   const factor = opts.factor
   const field = prepareCoarseField(coarse, nx, ny, factor)
-  const nugget = opts.nugget ?? DEFAULT_NUGGET_RATIO
-  if (!(nugget >= 0) || !Number.isFinite(nugget)) throw new Error(`nugget must be a finite number ≥ 0, got ${nugget}`)
+  if (opts.nugget !== undefined && opts.nugget !== 'estimate' && !(opts.nugget >= 0 && Number.isFinite(opts.nugget))) {
+    throw new Error(`nugget must be a finite number ≥ 0 or "estimate", got ${opts.nugget}`)
+  }
   const requested = opts.method ?? 'auto'
   if (!['auto', 'exact', 'whittle'].includes(requested)) throw new Error(`unknown method "${requested}" (use auto, exact or whittle)`)
   const kernelOption = opts.kernel
@@ -208,29 +248,34 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
 
   let whittleData: WhittleData | undefined
   const whittle = () => (whittleData ??= prepareWhittle(field, opts.whittleTaper ?? DEFAULT_WHITTLE_TAPER))
-  const fitWith = (kernel: KernelName, method: FitMethod) => fitKernel(field, factor, kernel, nu, method, nugget, lo, hi, whittle)
+  const fitWith = (kernel: KernelName, method: FitMethod) => fitKernel(field, factor, kernel, nu, method, nuggetFor(opts.nugget, kernel), lo, hi, whittle)
+  const methodFor = (kernel: KernelName) => chooseMethod(requested, kernel, field, nuggetFor(opts.nugget, kernel) === 'estimate')
 
   let chosen: KernelFit
   let candidates: FitResult['candidates']
   let searched = 0 // evaluations of every search made, all kernels
   if (kernelOption === 'auto') {
-    // Likelihoods are comparable only under one approximation: exact for all, or Whittle for all.
-    const methods = FAMILIES.map((k) => chooseMethod(requested, k, field))
+    // Likelihoods are comparable only under one approximation: exact for all, or Whittle for all. Families
+    // with an estimated nugget have one parameter more, so the choice is by AIC = 2k − 2ℓ (Akaike 1974).
+    const methods = FAMILIES.map(methodFor)
     const allExact = methods.every((m) => m !== 'whittle')
     const fits = FAMILIES.map((k, i) => fitWith(k, allExact ? methods[i]! : 'whittle'))
-    candidates = fits.map((f) => ({ kernel: f.kernel, logLikelihood: f.best.fit.logLikelihood, lengthScale: Math.exp(f.best.x), method: f.method }))
-    const winner = fits.reduce((p, q) => (q.best.fit.logLikelihood > p.best.fit.logLikelihood ? q : p))
-    const preferred = chooseMethod(requested, winner.kernel, field)
+    const aic = (f: KernelFit) => 2 * (f.nugget === 'estimate' ? 4 : 3) - 2 * f.best.fit.logLikelihood
+    candidates = fits.map((f) => ({
+      kernel: f.kernel, logLikelihood: f.best.fit.logLikelihood, aic: aic(f), lengthScale: Math.exp(f.best.x), method: f.method, nuggetEstimated: f.nugget === 'estimate',
+    }))
+    const winner = fits.reduce((p, q) => (aic(q) < aic(p) ? q : p))
+    const preferred = methodFor(winner.kernel)
     // Refit the winner with its own best likelihood (e.g. Kronecker for se after a Whittle comparison).
     chosen = preferred === winner.method ? winner : fitWith(winner.kernel, preferred)
     searched = fits.reduce((s, f) => s + f.history.length, 0) + (chosen === winner ? 0 : chosen.history.length)
   } else {
-    chosen = fitWith(kernelOption, chooseMethod(requested, kernelOption, field))
+    chosen = fitWith(kernelOption, methodFor(kernelOption))
     searched = chosen.history.length
   }
 
   // Interval and curvature reuse the chosen kernel's evaluations.
-  const { evaluate, history } = likelihoodOf(field, factor, chosen.kernel, nu, chosen.method, nugget, whittle)
+  const { evaluate, history } = likelihoodOf(field, factor, chosen.kernel, nu, chosen.method, chosen.nugget, whittle)
   history.push(...chosen.history)
   const best = chosen.best
   const left = intervalEnd(evaluate, history, best, -1, lo)
@@ -264,8 +309,9 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
     totalEvaluations: searched + history.length - chosen.history.length,
     profile,
     ...(candidates ? { candidates } : {}),
-    nuggetRatio: nugget,
-    nugget: nugget * factor * factor * variance,
+    nuggetRatio: best.nugget,
+    nuggetEstimated: chosen.nugget === 'estimate',
+    nugget: best.nugget * factor * factor * variance,
     lengthScaleBounds: [bounds[0], bounds[1]],
     validCells: field.valid.length,
   }

@@ -71,31 +71,46 @@ export function toeplitzEigen(c: Float64Array, n: number): SymmetricEigen {
 
 /**
  * Profile log-likelihood (μ, σ² profiled; see profileLikelihood.ts) of a complete field under `se` with
- * length scale ℓ (fine cells), block factor b, and `nugget` η added to the diagonal of the coarse correlation.
+ * length scale ℓ (fine cells) and block factor b, as a function of the nugget η added to the diagonal of
+ * the coarse correlation: the eigendecompositions and the rotated data are computed once, each η then
+ * costs one pass over the nx·ny eigenvalue products.
  */
-export function kroneckerLogLikelihood(field: CoarseField, b: number, lengthScale: number, nugget: number): ProfiledFit {
+export function kroneckerProfile(field: CoarseField, b: number, lengthScale: number): (nugget: number) => ProfiledFit {
   const { nx, ny, centred } = field
   if (!field.complete) throw new Error('the Kronecker likelihood needs a complete grid (no missing cells)')
   const ex = toeplitzEigen(seCoarseCorrelation1d(lengthScale, b, nx), nx)
   const ey = nx === ny ? ex : toeplitzEigen(seCoarseCorrelation1d(lengthScale, b, ny), ny)
   // Rotate the data: Ỹ = Qyᵀ Y Qx, with Y the ny×nx matrix of the field.
   const rotated = rotateLeft(rotateRight(centred, ny, nx, ex), ny, nx, ey)
-  // The constant vector rotates to the outer product of the eigenvectors' sums.
+  // The constant vector rotates to the outer product of the eigenvectors' sums (zero on skew vectors).
   const sumX = new Float64Array(nx), sumY = new Float64Array(ny)
   for (let i = 0; i < nx; i++) for (let k = 0; k < nx; k++) sumX[k]! += ex.vectors[i * nx + k]!
   for (let j = 0; j < ny; j++) for (let l = 0; l < ny; l++) sumY[l]! += ey.vectors[j * ny + l]!
-  let qyy = 0, q1y = 0, q11 = 0, logDet = 0
+  const m = nx * ny
+  const lambda = new Float64Array(m), yy = new Float64Array(m), y1 = new Float64Array(m), one2 = new Float64Array(m)
   for (let l = 0; l < ny; l++) {
     for (let k = 0; k < nx; k++) {
-      const d = ey.values[l]! * ex.values[k]! + nugget
-      const yr = rotated[l * nx + k]!, one = sumY[l]! * sumX[k]!
-      qyy += yr * yr / d
-      q1y += yr * one / d
-      q11 += one * one / d
-      logDet += Math.log(d)
+      const p = l * nx + k, yr = rotated[p]!, one = sumY[l]! * sumX[k]!
+      lambda[p] = ey.values[l]! * ex.values[k]!
+      yy[p] = yr * yr; y1[p] = yr * one; one2[p] = one * one
     }
   }
-  return profileFromQuadraticForms(qyy, q1y, q11, logDet, nx * ny, field.offset)
+  return (nugget) => {
+    let qyy = 0, q1y = 0, q11 = 0, logDet = 0
+    for (let p = 0; p < m; p++) {
+      const d = lambda[p]! + nugget, inv = 1 / d
+      qyy += yy[p]! * inv
+      q1y += y1[p]! * inv
+      q11 += one2[p]! * inv
+      logDet += Math.log(d)
+    }
+    return profileFromQuadraticForms(qyy, q1y, q11, logDet, m, field.offset)
+  }
+}
+
+/** kroneckerProfile(field, b, ℓ) at one nugget η. */
+export function kroneckerLogLikelihood(field: CoarseField, b: number, lengthScale: number, nugget: number): ProfiledFit {
+  return kroneckerProfile(field, b, lengthScale)(nugget)
 }
 
 /**

@@ -108,26 +108,35 @@ export function expectedPeriodogram(data: WhittleData, table: Float64Array, nugg
 
 /**
  * Debiased Whittle log-likelihood with σ² profiled out: over the K = nx·ny − 1 non-zero frequencies,
- * σ̂² = (1/K) Σ I/Ī₁ and ℓ = w·(−K/2 (ln 2πσ̂² + 1) − ½ Σ ln Ī₁), w = valid cells / frequencies.
+ * σ̂² = (1/K) Σ I/Ī₁ and ℓ = w·(−K/2 (ln 2πσ̂² + 1) − ½ Σ ln Ī₁), w = the weight of WhittleData.
  * The zero frequency is left out (it carries the unknown mean); the mean reported is the sample mean.
+ * Returns a function of the nugget η: a white nugget adds η to Ī₁ at every frequency, so the
+ * expected periodogram is computed once per table and every η costs one pass over the frequencies.
  */
-export function whittleLogLikelihood(data: WhittleData, table: Float64Array, nugget: number): ProfiledFit {
-  const expected = expectedPeriodogram(data, table, nugget)
+export function whittleProfile(data: WhittleData, table: Float64Array): (nugget: number) => ProfiledFit {
+  const expected = expectedPeriodogram(data, table, 0)
   const P = data.periodogram
   const n = P.length
   let peak = 0
   for (let k = 1; k < n; k++) peak = Math.max(peak, expected[k]!)
   // Ī is a variance, so ≥ 0; a floor keeps FFT round-off at near-singular spectra from producing ln(≤ 0).
   const floor = 1e-15 * peak
-  let ratio = 0, logSum = 0
-  for (let k = 1; k < n; k++) {
-    const e = Math.max(expected[k]!, floor)
-    ratio += P[k]! / e
-    logSum += Math.log(e)
-  }
   const K = n - 1
-  const variance = ratio / K
-  if (!(variance > 0)) return { logLikelihood: -Infinity, mean: data.field.offset, variance: NaN }
-  const logLikelihood = data.weight * (-0.5 * K * (Math.log(2 * Math.PI * variance) + 1) - 0.5 * logSum)
-  return { logLikelihood, mean: data.field.offset, variance }
+  return (nugget) => {
+    let ratio = 0, logSum = 0
+    for (let k = 1; k < n; k++) {
+      const e = Math.max(expected[k]! + nugget, floor)
+      ratio += P[k]! / e
+      logSum += Math.log(e)
+    }
+    const variance = ratio / K
+    if (!(variance > 0)) return { logLikelihood: -Infinity, mean: data.field.offset, variance: NaN }
+    const logLikelihood = data.weight * (-0.5 * K * (Math.log(2 * Math.PI * variance) + 1) - 0.5 * logSum)
+    return { logLikelihood, mean: data.field.offset, variance }
+  }
+}
+
+/** whittleProfile(data, table) at one nugget η. */
+export function whittleLogLikelihood(data: WhittleData, table: Float64Array, nugget: number): ProfiledFit {
+  return whittleProfile(data, table)(nugget)
 }
