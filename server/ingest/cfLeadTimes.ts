@@ -38,29 +38,30 @@ function timeVariables(ds: Dataset, data: Variable, timeDim: string | undefined)
   return found
 }
 
-function valuesAlong(v: Variable, count: number, what: string): number[] {
+/** Values along the lead times; a scalar is shared by all lead times only where that makes sense (the reference time). */
+function valuesAlong(v: Variable, count: number, what: string, scalarForAll: boolean): number[] {
   const values = Array.from(readAll(v), Number)
-  if (values.length === 1 && count > 1 && v.dimensions.length === 0) return new Array<number>(count).fill(values[0]!)
+  if (scalarForAll && values.length === 1 && count > 1 && v.dimensions.length === 0) return new Array<number>(count).fill(values[0]!)
   if (values.length !== count) {
-    throw new IngestError('shape_mismatch', `${what} has ${values.length} values but the data have ${count} lead times.`)
+    throw new IngestError('shape_mismatch', `${what} has ${values.length} value${values.length === 1 ? '' : 's'} but the data have ${count} lead times.`)
   }
   const fill = v.attributes._FillValue
   if (values.some((x) => !Number.isFinite(x) || x === fill)) throw new IngestError('missing_time', `${what} has missing values.`)
   return values
 }
 
-function instants(v: Variable, count: number, label: string): number[] {
+function instants(v: Variable, count: number, label: string, scalarForAll = false): number[] {
   const units = textAttribute(v, 'units')
   const what = `The ${label} "${v.name}"`
   if (!units) throw new IngestError('bad_time_units', `${what} has no units (expected e.g. "hours since 2031-03-04 00:00:00").`)
   const axis = parseTimeUnits(units, textAttribute(v, 'calendar'), what)
-  return valuesAlong(v, count, what).map((x) => cfTimeToMs(x, axis, what))
+  return valuesAlong(v, count, what, scalarForAll).map((x) => cfTimeToMs(x, axis, what))
 }
 
 function durations(v: Variable, count: number): number[] {
   const what = `The forecast period "${v.name}"`
   const ms = durationUnitMs(textAttribute(v, 'units') ?? '', what)
-  return valuesAlong(v, count, what).map((x) => x * ms)
+  return valuesAlong(v, count, what, false).map((x) => x * ms)
 }
 
 /** Resolves the lead times of `data` with `count` steps along `timeDim` (undefined: a single time). */
@@ -71,7 +72,7 @@ export function leadTimesOf(ds: Dataset, data: Variable, timeDim: string | undef
   const period = vars.period && durations(vars.period, count)
   let reference: number | null = null
   if (vars.reference) {
-    const refs = instants(vars.reference, count, 'forecast reference time')
+    const refs = instants(vars.reference, count, 'forecast reference time', true)
     if (refs.some((r) => r !== refs[0])) {
       throw new IngestError('unsupported_layout', `The lead times come from different forecast runs (${formatIsoUtc(refs[0]!)} … ${formatIsoUtc(refs.find((r) => r !== refs[0])!)}); upload one run at a time.`)
     }

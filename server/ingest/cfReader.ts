@@ -173,17 +173,17 @@ export function readCfRun(ds: Dataset, format: EnsembleFormat, options: ReadOpti
   if (!xVar || !yVar) {
     throw new IngestError('missing_coordinates', `The file has no coordinate values for the grid dimension "${!xVar ? xDim : yDim}", so the grid cannot be placed.`)
   }
-  const projection = projectionOf(ds, v, xVar, yVar)
-  const placed = placeGrid({ projection, x: axisValues(xVar, projection), y: axisValues(yVar, projection), xName: xVar.name, yName: yVar.name })
-  const { nx, ny } = placed.grid
-
   const notes: string[] = []
   const members = layout.member === undefined ? 1 : v.shape[layout.member]!
   if (members === 0) throw new IngestError('no_members', `The file has no ensemble members (the dimension "${v.dimensions[layout.member!]}" is empty).`)
   if (layout.member === undefined) notes.push('The file has no realization (member) dimension; it was read as a single member.')
   const steps = layout.time === undefined ? 1 : v.shape[layout.time]!
   if (steps === 0) throw new IngestError('missing_time', `The file has no lead times (the dimension "${v.dimensions[layout.time!]}" is empty).`)
-  checkDecodedSize(members * steps * nx * ny, options.maxDecodedBytes)
+  checkDecodedSize(members * steps * v.shape[layout.x]! * v.shape[layout.y]!, options.maxDecodedBytes) // before reading anything large
+
+  const projection = projectionOf(ds, v, xVar, yVar)
+  const placed = placeGrid({ projection, x: axisValues(xVar, projection), y: axisValues(yVar, projection), xName: xVar.name, yName: yVar.name })
+  const { nx, ny } = placed.grid
   const times = leadTimesOf(ds, v, layout.time === undefined ? undefined : v.dimensions[layout.time], steps)
 
   const standardName = textAttribute(v, 'standard_name') ?? null

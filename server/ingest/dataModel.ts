@@ -55,3 +55,30 @@ export function textAttribute(variable: { attributes: Record<string, AttributeVa
   const v = variable.attributes[name]
   return typeof v === 'string' ? v : undefined
 }
+
+/**
+ * Copies the box [start, start + count) of a row-major array of `shape` into `out` (row-major over the box),
+ * given a reader of flat element indices. Throws RangeError for a box outside the array.
+ */
+export function copyHyperslab(shape: number[], start: number[], count: number[], out: NumericArray, at: (flat: number) => number): NumericArray {
+  const rank = shape.length
+  if (rank === 0) { out[0] = at(0); return out }
+  for (let k = 0; k < rank; k++) {
+    if (start[k]! < 0 || count[k]! < 0 || start[k]! + count[k]! > shape[k]!) throw new RangeError('hyperslab outside the variable')
+  }
+  if (out.length === 0) return out
+  const strides = new Array<number>(rank)
+  strides[rank - 1] = 1
+  for (let k = rank - 2; k >= 0; k--) strides[k] = strides[k + 1]! * shape[k + 1]!
+  const index = new Array<number>(rank).fill(0)
+  const run = count[rank - 1]!
+  let o = 0
+  for (;;) {
+    let base = 0
+    for (let k = 0; k < rank; k++) base += (start[k]! + index[k]!) * strides[k]!
+    for (let i = 0; i < run; i++) out[o++] = at(base + i)
+    let k = rank - 2
+    while (k >= 0 && ++index[k]! >= count[k]!) { index[k] = 0; k-- }
+    if (k < 0) return out
+  }
+}

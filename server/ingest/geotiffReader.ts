@@ -42,7 +42,12 @@ function projectionForEpsg(code: number, geographic: boolean): Projection | unde
 }
 
 function projectionOf(image: GeoTIFFImage): Projection {
-  const keys = image.getGeoKeys() as Record<string, number> | null
+  let keys: Record<string, number> | null
+  try {
+    keys = image.getGeoKeys() as Record<string, number> | null
+  } catch (err) {
+    corrupt(err)
+  }
   if (!keys) throw new IngestError('missing_coordinates', 'The GeoTIFF has no georeferencing (no GeoTIFF keys), so the grid cannot be placed.')
   const geographic = keys.GTModelTypeGeoKey === 2
   const code = geographic ? keys.GeographicTypeGeoKey : keys.ProjectedCSTypeGeoKey
@@ -134,10 +139,16 @@ export async function readGeotiffRun(tiff: GeoTIFF, fileName: string, fileSize: 
     corrupt(err)
   }
   const members = bands.length
+  checkDecodedSize(members * image.getWidth() * image.getHeight(), options.maxDecodedBytes)
   const projection = projectionOf(image)
-  const { x, y } = axes(image)
+  let grid: { x: Float64Array; y: Float64Array }
+  try {
+    grid = axes(image)
+  } catch (err) {
+    corrupt(err)
+  }
+  const { x, y } = grid
   const placed = placeGrid({ projection, x, y, xName: 'columns', yName: 'rows' })
-  checkDecodedSize(members * x.length * y.length, options.maxDecodedBytes)
   const times = timesOf(meta)
 
   const units = meta.units ?? bands[0]?.unittype

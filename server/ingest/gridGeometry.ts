@@ -39,12 +39,15 @@ export function haversineKm(lon1: number, lat1: number, lon2: number, lat2: numb
   return 2 * radiusKm * Math.asin(Math.min(1, Math.sqrt(s)))
 }
 
-/** Unwraps longitudes that jump by more than 180° (e.g. 350, 355, 0, 5 → 350 … 365). */
-function unwrapLongitudes(values: Float64Array): boolean {
+/** Unwraps longitudes that jump by more than 180° (e.g. 350, 355, 0, 5 → 350 … 365); values must lie within ±720°. */
+function unwrapLongitudes(values: Float64Array, name: string): boolean {
+  if (values.some((v) => Math.abs(v) > 720)) {
+    throw new IngestError('missing_coordinates', `The longitudes of "${name}" are not valid longitudes (values beyond ±720°).`)
+  }
   let changed = false
   for (let k = 1; k < values.length; k++) {
-    while (values[k]! - values[k - 1]! < -180) { values[k]! += 360; changed = true }
-    while (values[k]! - values[k - 1]! > 180) { values[k]! -= 360; changed = true }
+    const turns = Math.round((values[k]! - values[k - 1]!) / 360)
+    if (turns !== 0) { values[k] = values[k]! - 360 * turns; changed = true }
   }
   return changed
 }
@@ -52,7 +55,7 @@ function unwrapLongitudes(values: Float64Array): boolean {
 function orientAxis(raw: ArrayLike<number>, name: string, longitude: boolean, notes: string[]): { values: Float64Array; reversed: boolean } {
   const values = Float64Array.from(raw)
   if (values.some((v) => !Number.isFinite(v))) throw new IngestError('non_monotonic', `The coordinate "${name}" has missing or non-finite values.`)
-  if (longitude && unwrapLongitudes(values)) notes.push(`Longitudes of "${name}" cross the 0°/360° or 180° line; they were unwrapped.`)
+  if (longitude && unwrapLongitudes(values, name)) notes.push(`Longitudes of "${name}" cross the 0°/360° or 180° line; they were unwrapped.`)
   if (values.length < 2) {
     throw new IngestError('grid_too_small', `The grid has ${values.length} cell along "${name}"; Tessera needs at least 2 in each direction.`)
   }

@@ -5,7 +5,7 @@
  * before any value is used. Layout per the NetCDF classic format specification (Unidata).
  */
 import { NetCDFReader } from 'netcdfjs'
-import type { AttributeValue, Dataset, NumericArray, ValueType, Variable } from './dataModel'
+import { copyHyperslab, type AttributeValue, type Dataset, type NumericArray, type ValueType, type Variable } from './dataModel'
 import { IngestError } from './errors'
 
 const TYPE_SIZE: Record<string, number> = { byte: 1, char: 1, short: 2, int: 4, float: 4, double: 8 }
@@ -107,33 +107,9 @@ export function openNetcdfClassic(bytes: Uint8Array): Dataset {
       type: hv.type as ValueType,
       attributes: attributes(hv.attributes),
       read(start, count) {
-        return readBox(shape, start, count, newArray(hv.type, count.reduce((p, n) => p * n, 1)), (k) => get(byteOffset(k)))
+        return copyHyperslab(shape, start, count, newArray(hv.type, count.reduce((p, n) => p * n, 1)), (k) => get(byteOffset(k)))
       },
     })
   }
   return { dimensions, variables, attributes: attributes(header.globalAttributes as HeaderVariable['attributes']) }
-}
-
-/** Copies the box [start, start + count) of a row-major array of `shape`, given a reader of flat indices. */
-function readBox(shape: number[], start: number[], count: number[], out: NumericArray, at: (flat: number) => number): NumericArray {
-  const rank = shape.length
-  if (rank === 0) { out[0] = at(0); return out }
-  for (let k = 0; k < rank; k++) {
-    if (start[k]! < 0 || count[k]! < 0 || start[k]! + count[k]! > shape[k]!) throw new RangeError('hyperslab outside the variable')
-  }
-  if (out.length === 0) return out
-  const strides = new Array<number>(rank)
-  strides[rank - 1] = 1
-  for (let k = rank - 2; k >= 0; k--) strides[k] = strides[k + 1]! * shape[k + 1]!
-  const index = new Array<number>(rank).fill(0)
-  const run = count[rank - 1]!
-  let o = 0
-  for (;;) {
-    let base = 0
-    for (let k = 0; k < rank; k++) base += (start[k]! + index[k]!) * strides[k]!
-    for (let i = 0; i < run; i++) out[o++] = at(base + i)
-    let k = rank - 2
-    while (k >= 0 && ++index[k]! >= count[k]!) { index[k] = 0; k-- }
-    if (k < 0) return out
-  }
 }
