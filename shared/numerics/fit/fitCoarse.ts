@@ -27,7 +27,10 @@ export type FitMethod = 'exact' | 'kronecker' | 'whittle'
 export interface FitOptions {
   /** Block factor b: fine cells per coarse cell along each axis. */
   factor: number
-  /** Kernel family, or 'auto' to choose se / matern12 / matern32 / matern52 by maximised likelihood. */
+  /**
+   * Kernel family, or 'auto' to choose among se / matern12 / matern32 / matern52 by maximised likelihood,
+   * penalised as AIC when the families differ in free parameters (an estimated nugget counts as one).
+   */
   kernel: KernelName | 'auto'
   /** 'auto' (default): exact when affordable (Kronecker for se on a complete grid, dense up to AUTO_DENSE_MAX_CELLS), Whittle beyond. */
   method?: 'auto' | 'exact' | 'whittle'
@@ -259,7 +262,9 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
     // with an estimated nugget have one parameter more, so the choice is by AIC = 2k − 2ℓ (Akaike 1974).
     const methods = FAMILIES.map(methodFor)
     const allExact = methods.every((m) => m !== 'whittle')
-    const fits = FAMILIES.map((k, i) => fitWith(k, allExact ? methods[i]! : 'whittle'))
+    // A family whose likelihood cannot be evaluated anywhere (e.g. se with a zero nugget) drops out.
+    const fits = FAMILIES.flatMap((k, i) => { try { return [fitWith(k, allExact ? methods[i]! : 'whittle')] } catch { return [] } })
+    if (fits.length === 0) throw new Error('no kernel family could be fitted (try a larger nugget)')
     const aic = (f: KernelFit) => 2 * (f.nugget === 'estimate' ? 4 : 3) - 2 * f.best.fit.logLikelihood
     candidates = fits.map((f) => ({
       kernel: f.kernel, logLikelihood: f.best.fit.logLikelihood, aic: aic(f), lengthScale: Math.exp(f.best.x), method: f.method, nuggetEstimated: f.nugget === 'estimate',

@@ -185,6 +185,14 @@ describe('fit result: profile, interval, bounds', () => {
     expect(w.lengthScaleInterval[0]).toBeCloseTo(w.lengthScaleBounds[0], 10)
   })
 
+  it('a plane (trend much longer than the domain) drives ℓ to the upper bound and says so', () => {
+    const plane = Float64Array.from({ length: 144 }, (_, k) => 0.3 * (k % 12) + 0.2 * Math.floor(k / 12) + 1e-3 * Math.sin(k * 7.7))
+    const p = fitCoarseField(plane, 12, 12, { factor: 4, kernel: 'matern32' })
+    expect(p.atBound).toBe('upper')
+    expect(p.lengthScaleInterval[1]).toBeCloseTo(p.lengthScaleBounds[1], 10)
+    expect(Number.isNaN(p.standardError)).toBe(true)
+  })
+
   it("general 'matern' with ν = 1.5 gives the matern32 fit (same likelihood through K_ν)", () => {
     const g = fitCoarseField(y, 12, 12, { factor: 4, kernel: 'matern', nu: 1.5 })
     expect(g.nu).toBe(1.5)
