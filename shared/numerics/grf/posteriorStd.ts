@@ -4,19 +4,18 @@
  * computed without Monte Carlo by one of three methods:
  *  - 'kronecker' (se, complete grid): exact. With C = s·Cx⊗Cy + t·I diagonalised by Qy⊗Qx, v_iᵀC⁻¹v_i is a
  *    sum over eigenpairs of products of 1-D terms, i.e. three small matrix products (Saatçi 2011).
- *  - 'dense': exact, v_iᵀC⁻¹v_i = ‖L⁻¹v_i‖² with the Cholesky factor L of C; O(W·m²), small grids only.
+ *  - 'dense': exact, v_iᵀC⁻¹v_i = ‖L⁻¹v_i‖² with the Cholesky factor L of C; O(W·m²), small grids only
+ *    (the window method with a window covering the grid).
  *  - 'window' (large non-separable grids): see windowPosteriorVariance.ts; exact when the window covers
  *    the grid, otherwise never below the exact std, with a certified bound (tight away from the edges).
  * All methods use the torus model of the set-up (the embedded kernel, including any nugget).
  */
 import { fft2d } from '../fft/fft2d'
-import { choleskyFactor, forwardSubstitute } from '../linalg/cholesky'
 import { matmul } from '../linalg/denseMatrix'
 import type { ConditioningModel } from './conditioningModel'
-import { DenseCoarseSolver } from './denseCoarseSolver'
 import { KroneckerCoarseSolver } from './kroneckerCoarseSolver'
 import { boxTransfer } from './torusBlockOperator'
-import { blockResponse, torusPointVariance } from './blockResponse'
+import { torusPointVariance } from './blockResponse'
 import { windowPosteriorVariance } from './windowPosteriorVariance'
 
 export interface PosteriorStdOptions {
@@ -52,35 +51,12 @@ export function posteriorStd(model: ConditioningModel, options: PosteriorStdOpti
     return { std: kroneckerStd(model, solver), method: 'kronecker', errorBound: 0 }
   }
   const work = model.fineNx * model.fineNy * model.covariance.observedCount ** 2
-  if (method === 'dense' || (method === 'auto' && work <= DENSE_WORK_LIMIT)) return { std: denseStd(model), method: 'dense', errorBound: 0 }
-  const result = windowPosteriorVariance(model, options)
+  // A window covering the whole grid is the dense exact computation (one Cholesky of C, translation-shared stencils).
+  const whole = Math.max(model.spec.nx, model.spec.ny)
+  const dense = method === 'dense' || (method === 'auto' && work <= DENSE_WORK_LIMIT)
+  const result = windowPosteriorVariance(model, dense ? { window: whole } : options)
+  if (dense) return { std: result.variance.map((v) => Math.sqrt(Math.max(v, 0))), method: 'dense', errorBound: 0 }
   return { std: result.variance.map((v) => Math.sqrt(Math.max(v, 0))), method: 'window', errorBound: result.stdErrorBound, interiorErrorBound: result.interiorStdErrorBound, window: result.window }
-}
-
-function denseStd(model: ConditioningModel): Float64Array {
-  const { spec, fineNx, fineNy, embedding: e } = model
-  const b = spec.factor
-  const dense = model.solver instanceof DenseCoarseSolver ? model.solver : undefined
-  const { matrix, index } = dense ? { matrix: undefined, index: dense.index } : model.covariance.denseObserved()
-  const n = index.length
-  const L = dense ? dense.factor : choleskyFactor(matrix!, n)
-  const u0 = blockResponse(model)
-  const k0 = torusPointVariance(model)
-  const bx = new Int32Array(n), by = new Int32Array(n)
-  for (let c = 0; c < n; c++) { bx[c] = index[c]! % spec.nx; by[c] = (index[c]! - bx[c]!) / spec.nx }
-  const out = new Float64Array(fineNx * fineNy)
-  const v = new Float64Array(n)
-  for (let j = 0; j < fineNy; j++) for (let i = 0; i < fineNx; i++) {
-    for (let c = 0; c < n; c++) {
-      const dx = ((i - b * bx[c]!) % e.nx + e.nx) % e.nx, dy = ((j - b * by[c]!) % e.ny + e.ny) % e.ny
-      v[c] = u0[dy * e.nx + dx]!
-    }
-    forwardSubstitute(L, n, v)
-    let q = 0
-    for (let c = 0; c < n; c++) q += v[c]! * v[c]!
-    out[j * fineNx + i] = Math.sqrt(Math.max(k0 - q, 0))
-  }
-  return out
 }
 
 /** 1-D cross-covariances V[B, i] = cov(x_i, y_B) = (Ax Kx)[B, i] from a 1-D torus spectrum λ (nc × fine). */
