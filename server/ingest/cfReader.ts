@@ -9,7 +9,7 @@ import { axisRole, coordinateOf, gridVariables, isLatitude, isLongitude, unitsOf
 import { leadTimesOf } from './cfLeadTimes'
 import { numberAttribute, numbersAttribute, readAll, textAttribute, type Dataset, type NumericArray, type Variable } from './dataModel'
 import { IngestError } from './errors'
-import { decodeField, type Decoding } from './fieldDecode'
+import { decodeField, type Decoding, type SlabLayout } from './fieldDecode'
 import { placeGrid } from './gridGeometry'
 import { projectionFromGridMapping, WGS84_LONLAT, type Projection } from './gridMapping'
 import { resolveUnits } from './quantities'
@@ -22,6 +22,8 @@ const DEFAULT_FILL: Record<string, number> = {
   ushort: 65535, uint: 4294967295, int64: -9223372036854775806, uint64: 18446744073709551614,
 }
 const UNSIGNED_BITS: Record<string, number> = { byte: 8, short: 16, int: 32 }
+/** Variables up to this many cells (256 MB of float32) are read in one call. */
+const WHOLE_READ_CELLS = 64 * 2 ** 20
 
 function chooseVariable(ds: Dataset, wanted: string | undefined): Variable {
   const candidates = gridVariables(ds)
@@ -164,8 +166,8 @@ function asUnsigned(raw: NumericArray, type: string): NumericArray {
   return Array.from(raw, (x) => (x < 0 ? x + 2 ** bits : x))
 }
 
-/** Interprets a NetCDF dataset as one ensemble run of one variable. */
-export function readCfRun(ds: Dataset, format: EnsembleFormat, options: ReadOptions & { maxDecodedBytes: number }): EnsembleRun {
+/** Interprets a NetCDF dataset as one ensemble run of one variable (`wholeReadCells`: largest variable read in one call). */
+export function readCfRun(ds: Dataset, format: EnsembleFormat, options: ReadOptions & { maxDecodedBytes: number; wholeReadCells?: number }): EnsembleRun {
   const v = chooseVariable(ds, options.variable)
   const layout = layoutOf(ds, v)
   const xDim = v.dimensions[layout.x]!, yDim = v.dimensions[layout.y]!
@@ -193,19 +195,33 @@ export function readCfRun(ds: Dataset, format: EnsembleFormat, options: ReadOpti
   const decoding = decodingOf(v, resolved.scale, resolved.offset)
   const unsigned = textAttribute(v, '_Unsigned') === 'true' && v.type in UNSIGNED_BITS
 
-  const xFirst = layout.x < layout.y
-  const slab = { nx, ny, strideX: xFirst ? ny : 1, strideY: xFirst ? 1 : nx, flipX: placed.flipX, flipY: placed.flipY }
+  // One read of the whole variable decompresses each chunk once (chunks often span several members);
+  // larger variables are read field by field to bound memory.
   const labels = memberLabels(ds, v, layout)
+  const unsignedView = (raw: NumericArray) => (unsigned ? asUnsigned(raw, v.type) : raw)
+  const whole = members * steps * nx * ny <= (options.wholeReadCells ?? WHOLE_READ_CELLS) ? unsignedView(readAll(v)) : undefined
+  const strides = v.shape.map((_, k) => v.shape.slice(k + 1).reduce((p, n) => p * n, 1))
+  const xFirst = layout.x < layout.y
   const fields: Float32Array[] = []
   for (let t = 0; t < steps; t++) {
     for (let m = 0; m < members; m++) {
-      const start = v.shape.map(() => 0)
-      const count = v.shape.map((n, k) => (k === layout.x || k === layout.y ? n : 1))
-      if (layout.time !== undefined) start[layout.time] = t
-      if (layout.member !== undefined) start[layout.member] = m
-      let raw = v.read(start, count)
-      if (unsigned) raw = asUnsigned(raw, v.type)
-      fields.push(decodeField(raw, slab, decoding, fieldLabel(labels, m, times.validTimesMs[t]!)))
+      const where = fieldLabel(labels, m, times.validTimesMs[t]!)
+      const slab = { nx, ny, flipX: placed.flipX, flipY: placed.flipY }
+      let raw: NumericArray
+      let layoutInRaw: SlabLayout
+      if (whole) {
+        raw = whole
+        const origin = (layout.time === undefined ? 0 : t * strides[layout.time]!) + (layout.member === undefined ? 0 : m * strides[layout.member]!)
+        layoutInRaw = { ...slab, origin, strideX: strides[layout.x]!, strideY: strides[layout.y]! }
+      } else {
+        const start = v.shape.map(() => 0)
+        const count = v.shape.map((n, k) => (k === layout.x || k === layout.y ? n : 1))
+        if (layout.time !== undefined) start[layout.time] = t
+        if (layout.member !== undefined) start[layout.member] = m
+        raw = unsignedView(v.read(start, count))
+        layoutInRaw = { ...slab, strideX: xFirst ? ny : 1, strideY: xFirst ? 1 : nx }
+      }
+      fields.push(decodeField(raw, layoutInRaw, decoding, where))
     }
   }
   const heightM = heightOf(ds, v, layout)

@@ -18,6 +18,8 @@ export interface Decoding {
 }
 
 export interface SlabLayout {
+  /** Index in `raw` of the first cell in file order (default 0). */
+  origin?: number
   nx: number
   ny: number
   /** Distance in the raw slab between neighbouring columns / rows in file order. */
@@ -30,13 +32,14 @@ export interface SlabLayout {
 /** Decodes a slab into a new Float32Array (NaN = missing). Throws IngestError('non_finite') for undeclared NaN/±∞. */
 export function decodeField(raw: ArrayLike<number>, layout: SlabLayout, decoding: Decoding, where: string): Float32Array {
   const { nx, ny, strideX, strideY, flipX, flipY } = layout
+  const origin = layout.origin ?? 0
   const out = new Float32Array(nx * ny)
   const missing = new Set(decoding.missing)
   const checkMissing = missing.size > 0
   const { validMin, validMax, nanIsMissing, scale, offset } = decoding
   let nonFinite = 0
   for (let j = 0; j < ny; j++) {
-    const rowBase = (flipY ? ny - 1 - j : j) * strideY
+    const rowBase = origin + (flipY ? ny - 1 - j : j) * strideY
     for (let i = 0; i < nx; i++) {
       const v = raw[rowBase + (flipX ? nx - 1 - i : i) * strideX]!
       if (Number.isNaN(v)) {

@@ -2,6 +2,9 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { readEnsembleFile, readEnsembleFromPath } from '../../../server/ingest/readEnsemble'
 import { summariseRun } from '../../../server/ingest/summary'
 import type { EnsembleRun } from '../../../server/ingest/types'
+import { readCfRun } from '../../../server/ingest/cfReader'
+import { openNetcdfClassic } from '../../../server/ingest/netcdfClassic'
+import { withNetcdf4 } from '../../../server/ingest/netcdf4'
 import { fixtureBytes, fixturePath, gdalCorners, gustPacked, lawOfCosinesKm, precipKgM2, sameCornerSet, t2mKelvin } from './fixtures'
 
 // Values follow the formulas in each CDL file; the .nc files were written by ncgen (netcdf-bin), so these
@@ -162,6 +165,19 @@ describe('NetCDF 64-bit offset: 6 h precipitation on a Lambert conformal grid in
     const [nw, ne, se, sw] = run.corners
     expect(nw![0]).toBeLessThan(ne![0]); expect(sw![0]).toBeLessThan(se![0])
     expect(nw![1]).toBeGreaterThan(sw![1]); expect(ne![1]).toBeGreaterThan(se![1])
+  })
+})
+
+describe('field-by-field reading (used for variables too large to read in one call)', () => {
+  it('gives the same fields as reading the whole variable', async () => {
+    const classic = openNetcdfClassic(fixtureBytes('precip_lcc_64bit.nc'))
+    const a = readCfRun(classic, 'netcdf-classic', { maxDecodedBytes: 1e9 })
+    const b = readCfRun(classic, 'netcdf-classic', { maxDecodedBytes: 1e9, wholeReadCells: 0 })
+    expect(b.fields).toEqual(a.fields)
+    const [c, d] = await Promise.all([0, undefined].map((wholeReadCells) =>
+      withNetcdf4({ bytes: fixtureBytes('gust_rotated_nc4.nc') }, (ds) => readCfRun(ds, 'netcdf-4', { maxDecodedBytes: 1e9, wholeReadCells }))))
+    expect(c!.fields).toEqual(d!.fields)
+    expect(c!.fields[5]![7]).toBeCloseTo(gustPacked(2, 1, 1, 1) * 0.01 * KNOT, 5)
   })
 })
 
