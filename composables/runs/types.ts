@@ -1,0 +1,128 @@
+/**
+ * Shapes of the forecast-run API as the pages use them (see server/utils/runs.ts and
+ * server/ingest/types.ts RunSummary). Times arrive as ISO 8601 strings.
+ */
+import type { KERNEL_CHOICES } from '#shared/schemas/runs'
+
+export type RunStatus = 'staged' | 'ready' | 'queued' | 'running' | 'completed' | 'failed' | 'cancelled'
+export type TaskStatus = 'pending' | 'running' | 'done' | 'failed' | 'cancelled'
+export type KernelChoice = (typeof KERNEL_CHOICES)[number]
+export type FittedKernel = Exclude<KernelChoice, 'auto'> | 'matern'
+export type FitMethod = 'exact' | 'kronecker' | 'whittle'
+
+export interface RunGridSummary { nx: number; ny: number; spacingKm: number; dxKm: number; dyKm: number; crs: string }
+
+export interface RunSettings { factor: number; samplesPerMember: number; kernel: KernelChoice; seed: number }
+
+/** A run as lists and pages show it (no large arrays). */
+export interface RunSummaryDto {
+  id: number
+  name: string
+  status: RunStatus
+  format: string
+  sourceFileName: string
+  sourceBytes: number
+  variable: string
+  standardName: string | null
+  units: string
+  canonicalUnits: string
+  displayUnits: string
+  members: number
+  leadTimes: string[]
+  forecastPeriodsHours: number[]
+  referenceTime: string | null
+  heightM: number | null
+  cellMethods: string | null
+  grid: RunGridSummary
+  /** [west, south, east, north], degrees. */
+  extent: [number, number, number, number]
+  /** Outer corners [lon, lat]: north-west, north-east, south-east, south-west. */
+  corners: [number, number][]
+  notes: string[]
+  settings: RunSettings | null
+  isDemo: boolean
+  startedAt: string | null
+  finishedAt: string | null
+  createdAt: string
+}
+
+export interface TaskCounts { total: number; done: number; running: number; pending: number; failed: number; cancelled: number }
+
+export interface RunListItem extends RunSummaryDto { progress: TaskCounts }
+
+/** What the reader found in an uploaded file, before it is confirmed. */
+export interface UploadPreview {
+  format: string
+  variable: string
+  standardName: string | null
+  units: string
+  canonicalUnits: string
+  displayUnits: string
+  members: number
+  leadTimes: string[]
+  forecastPeriodsHours: number[]
+  referenceTime: string | null
+  heightM?: number
+  cellMethods?: string
+  grid: RunGridSummary
+  extent: [number, number, number, number]
+  /** First member at the first lead time, canonical units. */
+  stats: { min: number; max: number; mean: number; missingCells: number }
+  notes: string[]
+}
+
+export interface UploadResponse { run: RunSummaryDto; preview: UploadPreview }
+
+/** Fitted prior of one member at one lead time (the list omits the profile curve). */
+export interface TaskFit {
+  kernel: FittedKernel
+  nu?: number
+  /** ℓ in fine-grid cells. */
+  lengthScale: number
+  lengthScaleKm: number
+  lengthScaleIntervalKm: [number, number]
+  /** σ², field units². */
+  variance: number
+  mean: number
+  logLikelihood: number
+  atBound: 'lower' | 'upper' | null
+  method: FitMethod
+  /** Largest rounding error of the stored 16-bit samples, field units. */
+  precision?: number
+  blockMeanError?: number
+  /** Search interval for ℓ in fine cells. */
+  lengthScaleBounds?: [number, number]
+  candidates?: { kernel: FittedKernel; logLikelihood: number; lengthScale: number; method: FitMethod }[]
+  profile?: ProfilePoint[]
+}
+
+export interface ProfilePoint { lengthScaleKm: number; logLikelihood: number }
+
+export interface RunTask {
+  id: number
+  leadIndex: number
+  memberIndex: number
+  status: TaskStatus
+  attempts: number
+  elapsedMs: number | null
+  error: string | null
+  startedAt: string | null
+  finishedAt: string | null
+  fit: TaskFit | null
+}
+
+export interface RunProgress extends TaskCounts { elapsedMs: number; estimateMs: number | null; meanTaskMs: number | null }
+
+export interface RunDetail extends RunSummaryDto { sampleBytesEstimate: number | null; fineSpacingKm: number | null }
+
+export interface RunDetailResponse { run: RunDetail; progress: RunProgress; tasks: RunTask[] }
+
+export interface TaskProfileResponse {
+  task: { id: number; leadIndex: number; memberIndex: number; status: TaskStatus; fit: (TaskFit & { profile: ProfilePoint[] }) | null }
+}
+
+/** What both the upload preview and a stored run can show about the file's contents. */
+export type RunFacts = Pick<UploadPreview,
+  'format' | 'variable' | 'standardName' | 'units' | 'canonicalUnits' | 'displayUnits' | 'members' | 'leadTimes'
+  | 'forecastPeriodsHours' | 'referenceTime' | 'grid' | 'extent' | 'notes'>
+  & { heightM?: number | null; cellMethods?: string | null; stats?: UploadPreview['stats'] }
