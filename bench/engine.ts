@@ -75,6 +75,7 @@ function largeCase(kernel: KernelName, fft: number, out: Figures, sampleCount: n
   out[`${k}PerSampleMedianMs`] = median(pairTimes)
   out[`${k}PerSampleOverFft`] = perSample / fft
   out[`${k}BlockMeanError`] = blockMeanError(samples, spec)
+  out[`${k}BlockMeanBeforeProjection`] = d.diagnostics.blockMeanCorrection
   out[`${k}Solver`] = d.diagnostics.solver
   out[`${k}Iterations`] = d.diagnostics.iterations
   out[`${k}Torus`] = d.diagnostics.torus.join('x')
@@ -118,6 +119,7 @@ function hugeCase(out: Figures): void {
   out.matern32x2048SetupMs = setup
   out.matern32x2048PerSampleMs = all / 4
   out.matern32x2048BlockMeanError = blockMeanError(samples, spec)
+  out.matern32x2048BlockMeanBeforeProjection = d.diagnostics.blockMeanCorrection
   out.matern32x2048Torus = d.diagnostics.torus.join('x')
   out.matern32x2048Iterations = d.diagnostics.iterations
   out.rssBefore2048MB = rssBefore / 2 ** 20

@@ -48,7 +48,8 @@ export class PcgCoarseSolver implements CoarseSolver {
     const residual = Math.max(0, ...result.relativeResiduals)
     // The recursive residual can drift from the true one; the true one decides.
     if (!(residual <= this.acceptResidual) || (!result.converged && residual > this.tolerance)) {
-      throw new Error(`coarse PCG did not converge: relative residual ${residual.toExponential(2)} after ${result.iterations} iterations (tolerance ${this.tolerance})`)
+      throw new Error(`coarse PCG did not converge: relative residual ${residual.toExponential(2)} after ${result.iterations} iterations (tolerance ${this.tolerance}${result.stagnated ? ', stalled' : ''}); `
+        + 'C is too ill-conditioned for this prior and missing-cell pattern: a rougher kernel (Matérn) or a nugget makes it solvable')
     }
     return { solutions: result.solutions, iterations: result.iterations, residual }
   }

@@ -13,6 +13,8 @@ export interface PcgOptions {
   tolerance?: number
   /** Default 500. */
   maxIterations?: number
+  /** Give up on a system whose residual did not halve over this many iterations (default 100). */
+  stagnationWindow?: number
 }
 
 export interface PcgResult {
@@ -21,6 +23,8 @@ export interface PcgResult {
   /** True relative residuals ‖b − A x‖/‖b‖ recomputed with the operator at the end (0 for a zero right-hand side). */
   relativeResiduals: number[]
   converged: boolean
+  /** True when a system was abandoned because its residual stopped falling. */
+  stagnated: boolean
 }
 
 function dot(a: Float64Array, b: Float64Array): number {
@@ -33,11 +37,15 @@ function dot(a: Float64Array, b: Float64Array): number {
 export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs: Float64Array[], options: PcgOptions = {}): PcgResult {
   const tol = options.tolerance ?? 1e-12
   const maxIterations = options.maxIterations ?? 500
+  const window = options.stagnationWindow ?? 100
   const count = rhs.length, n = rhs[0]?.length ?? 0
   const make = () => Array.from({ length: count }, () => new Float64Array(n))
   const x = make(), r = rhs.map((b) => Float64Array.from(b)), z = make(), p = make(), q = make()
   const bNorm = rhs.map((b) => Math.sqrt(dot(b, b)))
   const active = bNorm.map((v) => v > 0)
+  const converged = active.map((a) => !a)
+  const history: number[][] = rhs.map(() => [])
+  let stagnated = false
   precondition(r, z)
   const rz = r.map((rj, j) => dot(rj, z[j]!))
   for (let j = 0; j < count; j++) p[j]!.set(z[j]!)
@@ -50,7 +58,15 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
       const pj = p[j]!, qj = q[j]!, xj = x[j]!, rj = r[j]!
       const alpha = rz[j]! / dot(pj, qj)
       for (let k = 0; k < n; k++) { xj[k]! += alpha * pj[k]!; rj[k]! -= alpha * qj[k]! }
-      if (Math.sqrt(dot(rj, rj)) <= tol * bNorm[j]!) { active[j] = false; p[j]!.fill(0) }
+      const norm = Math.sqrt(dot(rj, rj))
+      if (norm <= tol * bNorm[j]!) { active[j] = false; converged[j] = true; p[j]!.fill(0); continue }
+      const h = history[j]!
+      h.push(norm)
+      if (h.length > window) {
+        // CG residuals are not monotone: the best of the last 10 against the value `window` iterations ago.
+        const before = h.shift()!
+        if (Math.min(...h.slice(-10)) > 0.5 * before) { active[j] = false; stagnated = true; p[j]!.fill(0) }
+      }
     }
     if (!active.some(Boolean)) break
     precondition(r, z)
@@ -71,5 +87,5 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
     for (let k = 0; k < n; k++) s += (b[k]! - q[j]![k]!) ** 2
     return Math.sqrt(s) / bNorm[j]!
   })
-  return { solutions: x, iterations, relativeResiduals, converged: !active.some(Boolean) }
+  return { solutions: x, iterations, relativeResiduals, converged: converged.every(Boolean), stagnated }
 }
