@@ -68,9 +68,30 @@ export function fft2dRowPruned(re: Float64Array, im: Float64Array, nx: number, n
   }
 }
 
+interface ColumnBuffers { gathered: Float64Array; transformed: Float64Array; inViews: Float64Array[]; outViews: Float64Array[] }
+const columnBufferCache = new Map<number, ColumnBuffers>()
+
+/** Reused gather buffers for columns of length ny: COLUMN_BLOCK columns at offsets c·2ny, with per-column views for fft.js. */
+function columnBuffers(ny: number): ColumnBuffers {
+  let cached = columnBufferCache.get(ny)
+  if (!cached) {
+    const len = 2 * ny
+    const gathered = new Float64Array(len * COLUMN_BLOCK), transformed = new Float64Array(len * COLUMN_BLOCK)
+    cached = {
+      gathered, transformed,
+      inViews: Array.from({ length: COLUMN_BLOCK }, (_, c) => gathered.subarray(c * len, (c + 1) * len)),
+      outViews: Array.from({ length: COLUMN_BLOCK }, (_, c) => transformed.subarray(c * len, (c + 1) * len)),
+    }
+    columnBufferCache.set(ny, cached)
+  }
+  return cached
+}
+
 function transformRows(re: Float64Array, im: Float64Array, nx: number, ny: number, inverse: boolean): void {
   const plan = complexFftPlan(nx)
-  const buf = new Float64Array(2 * nx), out = new Float64Array(2 * nx)
+  // Exact-length views: fft.js's inverse rescales every entry of its output array.
+  const { inViews, outViews } = columnBuffers(nx)
+  const buf = inViews[0]!, out = outViews[0]!
   for (let j = 0; j < ny; j++) {
     const o = j * nx
     for (let i = 0; i < nx; i++) { buf[2 * i] = re[o + i]!; buf[2 * i + 1] = im[o + i]! }
@@ -83,22 +104,20 @@ function transformRows(re: Float64Array, im: Float64Array, nx: number, ny: numbe
 function transformColumns(re: Float64Array, im: Float64Array, width: number, ny: number, stride: number, inverse: boolean): void {
   const plan = complexFftPlan(ny)
   const block = Math.min(COLUMN_BLOCK, width)
-  const bufs = Array.from({ length: block }, () => new Float64Array(2 * ny))
-  const out = new Float64Array(2 * ny)
+  const len = 2 * ny
+  const { gathered, transformed, inViews, outViews } = columnBuffers(ny)
   for (let c0 = 0; c0 < width; c0 += block) {
     const cw = Math.min(block, width - c0)
     for (let j = 0; j < ny; j++) {
       const o = j * stride + c0
-      for (let c = 0; c < cw; c++) { const b = bufs[c]!; b[2 * j] = re[o + c]!; b[2 * j + 1] = im[o + c]! }
+      for (let c = 0, g = 2 * j; c < cw; c++, g += len) { gathered[g] = re[o + c]!; gathered[g + 1] = im[o + c]! }
     }
     for (let c = 0; c < cw; c++) {
-      const b = bufs[c]!
-      if (inverse) plan.inverse(out, b); else plan.forward(out, b)
-      b.set(out)
+      if (inverse) plan.inverse(outViews[c]!, inViews[c]!); else plan.forward(outViews[c]!, inViews[c]!)
     }
     for (let j = 0; j < ny; j++) {
       const o = j * stride + c0
-      for (let c = 0; c < cw; c++) { const b = bufs[c]!; re[o + c] = b[2 * j]!; im[o + c] = b[2 * j + 1]! }
+      for (let c = 0, g = 2 * j; c < cw; c++, g += len) { re[o + c] = transformed[g]!; im[o + c] = transformed[g + 1]! }
     }
   }
 }
