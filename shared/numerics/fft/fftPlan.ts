@@ -63,6 +63,21 @@ function powerOfTwoPlan(n: number): ComplexFftPlan {
   }
 }
 
+/**
+ * A plan from a forward transform that takes the sign of the imaginary parts (+1 forward, −1 for the
+ * conjugated input/output that turns it into an unnormalised inverse).
+ */
+function planFromConjugateTransform(n: number, transform: (out: Float64Array, input: Float64Array, sign: number) => void): ComplexFftPlan {
+  return {
+    n,
+    forward(out, input) { transform(out, input, 1) },
+    inverse(out, input) {
+      transform(out, input, -1)
+      for (let k = 0; k < 2 * n; k++) out[k]! /= n
+    },
+  }
+}
+
 /** Length n = r·m, r odd, m a power of two (m may be 1). */
 function mixedRadixPlan(r: number, m: number): ComplexFftPlan {
   const n = r * m
@@ -103,14 +118,7 @@ function mixedRadixPlan(r: number, m: number): ComplexFftPlan {
       }
     }
   }
-  return {
-    n,
-    forward(out, input) { transform(out, input, 1) },
-    inverse(out, input) {
-      transform(out, input, -1)
-      for (let k = 0; k < 2 * n; k++) out[k]! /= n
-    },
-  }
+  return planFromConjugateTransform(n, transform)
 }
 
 /** Bluestein: DFT as a convolution with the chirp e^{−iπt²/n}, done with power-of-two FFTs. */
@@ -153,12 +161,5 @@ function bluesteinPlan(n: number): ComplexFftPlan {
       out[2 * f + 1] = sign * (cr * chirpI[f]! + ci * chirpR[f]!)
     }
   }
-  return {
-    n,
-    forward(out, input) { transform(out, input, 1) },
-    inverse(out, input) {
-      transform(out, input, -1)
-      for (let k = 0; k < 2 * n; k++) out[k]! /= n
-    },
-  }
+  return planFromConjugateTransform(n, transform)
 }
