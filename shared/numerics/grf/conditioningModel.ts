@@ -12,6 +12,7 @@
  * squared-exponential with ℓ of a few coarse cells this is typically 1e-8…1e-6 of σ².
  */
 import { covarianceFunction, decayRadius, type KernelParams } from './kernels'
+import './maternGeneral' // installs the general-ν Matérn used by kernel 'matern'
 import { embedCovariance, embedSeparableCovariance, type CirculantEmbedding, type EmbeddingOptions } from './circulantEmbedding'
 import { coarseSymbol1d, TorusBlockOperator } from './torusBlockOperator'
 import { CoarseCovariance, type CoarseSolver } from './coarseCovariance'

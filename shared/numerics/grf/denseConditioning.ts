@@ -9,6 +9,7 @@
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix'
 import { covarianceFunction } from './kernels'
+import './maternGeneral' // installs the general-ν Matérn used by kernel 'matern'
 import type { ConditioningSpec, LinearTrend } from './conditioningModel'
 import { Xoshiro128 } from '../random/xoshiro128'
 import { fillStandardNormal } from '../random/normal'

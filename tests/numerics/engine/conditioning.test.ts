@@ -35,6 +35,8 @@ const cases: { name: string; spec: DownscalerSpec; solver: string }[] = [
     spec: { coarse: coarseField(6, 6, [0, 20]), nx: 6, ny: 6, factor: 2, kernel: { kernel: 'se', lengthScale: 2, variance: 1 }, mean: 1 } },
   { name: 'Matérn-5/2, missing cells, PCG forced, with a nugget', solver: 'pcg',
     spec: { coarse: coarseField(8, 6, [9, 10, 40]), nx: 8, ny: 6, factor: 3, kernel: { kernel: 'matern52', lengthScale: 4, variance: 1, nugget: 0.01 }, mean: 0, options: { solver: 'pcg' } } },
+  { name: 'general Matérn ν = 1.2, complete', solver: 'dense',
+    spec: { coarse: coarseField(5, 4), nx: 5, ny: 4, factor: 3, kernel: { kernel: 'matern', nu: 1.2, lengthScale: 3, variance: 1 }, mean: 0 } },
   { name: 'Matérn-1/2, complete', solver: 'dense',
     spec: { coarse: coarseField(5, 4), nx: 5, ny: 4, factor: 4, kernel: { kernel: 'matern12', lengthScale: 3, variance: 1 }, mean: 2 } },
 ]
