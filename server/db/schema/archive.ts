@@ -1,0 +1,30 @@
+import { customType, index, integer, pgTable, text, timestamp } from 'drizzle-orm/pg-core'
+import { sql } from 'drizzle-orm'
+import { briefings, briefingStatusEnum } from './briefings'
+import { geometry4326 } from './columns'
+
+const tsvector = customType<{ data: string; driverData: string }>({ dataType: () => 'tsvector' })
+
+/**
+ * The archive's search index, one row per briefing version, kept up to date by a trigger on
+ * `briefings` (migration "archive_search"): the weighted text-search document (title and headline
+ * A, area names and statements B, summary C, details, confidence and caveats D), the hazards, the
+ * area names and the union of the briefing's areas (GiST) for the map filter. A separate table so
+ * the briefings rows, immutable once issued, stay exactly as they were written.
+ */
+export const briefingSearch = pgTable('briefing_search', {
+  briefingId: integer('briefing_id').primaryKey().references(() => briefings.id, { onDelete: 'cascade' }),
+  /** Copied from the briefing so filters and date ordering are answered from this table's indexes. */
+  status: briefingStatusEnum('status').notNull(),
+  issuedAt: timestamp('issued_at', { withTimezone: true }),
+  document: tsvector('document').notNull(),
+  hazards: text('hazards').array().notNull().default(sql`'{}'::text[]`),
+  areaNames: text('area_names').array().notNull().default(sql`'{}'::text[]`),
+  footprint: geometry4326('footprint', 'MultiPolygon'),
+  refreshedAt: timestamp('refreshed_at', { withTimezone: true }).notNull().defaultNow(),
+}, (t) => [
+  index('briefing_search_issued_idx').on(t.issuedAt),
+  index('briefing_search_document_idx').using('gin', t.document),
+  index('briefing_search_hazards_idx').using('gin', t.hazards),
+  index('briefing_search_footprint_idx').using('gist', t.footprint),
+])
