@@ -190,3 +190,9 @@ export const FORMAT_LABELS: Record<string, string> = {
 export function standardDeviation(variance: number | null | undefined): number {
   return variance !== null && variance !== undefined && variance >= 0 ? Math.sqrt(variance) : Number.NaN
 }
+
+/** "2031-11-14 06:00" for table cells whose header already says UTC. */
+export function formatUtcCompact(value: string | null | undefined): string {
+  const iso = formatIsoUtc(value)
+  return iso === '—' ? iso : `${iso.slice(0, 10)} ${iso.slice(11, 16)}`
+}

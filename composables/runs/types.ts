@@ -14,31 +14,37 @@ export interface RunGridSummary { nx: number; ny: number; spacingKm: number; dxK
 
 export interface RunSettings { factor: number; samplesPerMember: number; kernel: KernelChoice; seed: number }
 
-/** A run as lists and pages show it (no large arrays). */
-export interface RunSummaryDto {
-  id: number
-  name: string
-  status: RunStatus
+/** What the reader found in a file: shared by the upload preview and the stored run. */
+export interface RunContents {
   format: string
-  sourceFileName: string
-  sourceBytes: number
   variable: string
   standardName: string | null
+  /** Units exactly as in the file. */
   units: string
   canonicalUnits: string
   displayUnits: string
   members: number
+  /** Valid times, ISO 8601 UTC. */
   leadTimes: string[]
   forecastPeriodsHours: number[]
   referenceTime: string | null
-  heightM: number | null
-  cellMethods: string | null
   grid: RunGridSummary
   /** [west, south, east, north], degrees. */
   extent: [number, number, number, number]
+  notes: string[]
+}
+
+/** A run as lists and pages show it (no large arrays). */
+export interface RunSummaryDto extends RunContents {
+  id: number
+  name: string
+  status: RunStatus
+  sourceFileName: string
+  sourceBytes: number
+  heightM: number | null
+  cellMethods: string | null
   /** Outer corners [lon, lat]: north-west, north-east, south-east, south-west. */
   corners: [number, number][]
-  notes: string[]
   settings: RunSettings | null
   isDemo: boolean
   startedAt: string | null
@@ -50,25 +56,12 @@ export interface TaskCounts { total: number; done: number; running: number; pend
 
 export interface RunListItem extends RunSummaryDto { progress: TaskCounts }
 
-/** What the reader found in an uploaded file, before it is confirmed. */
-export interface UploadPreview {
-  format: string
-  variable: string
-  standardName: string | null
-  units: string
-  canonicalUnits: string
-  displayUnits: string
-  members: number
-  leadTimes: string[]
-  forecastPeriodsHours: number[]
-  referenceTime: string | null
+/** The preview of an uploaded file, before it is confirmed (server/ingest/types.ts RunSummary). */
+export interface UploadPreview extends RunContents {
   heightM?: number
   cellMethods?: string
-  grid: RunGridSummary
-  extent: [number, number, number, number]
   /** First member at the first lead time, canonical units. */
   stats: { min: number; max: number; mean: number; missingCells: number }
-  notes: string[]
 }
 
 export interface UploadResponse { run: RunSummaryDto; preview: UploadPreview }
@@ -122,7 +115,4 @@ export interface TaskProfileResponse {
 }
 
 /** What both the upload preview and a stored run can show about the file's contents. */
-export type RunFacts = Pick<UploadPreview,
-  'format' | 'variable' | 'standardName' | 'units' | 'canonicalUnits' | 'displayUnits' | 'members' | 'leadTimes'
-  | 'forecastPeriodsHours' | 'referenceTime' | 'grid' | 'extent' | 'notes'>
-  & { heightM?: number | null; cellMethods?: string | null; stats?: UploadPreview['stats'] }
+export type RunFacts = RunContents & { heightM?: number | null; cellMethods?: string | null; stats?: UploadPreview['stats'] }
