@@ -52,9 +52,41 @@ function normalTail(rng: Xoshiro128): number {
   }
 }
 
-/** Fills out[offset … offset+count) with independent standard normal variates. */
+/**
+ * Fills out[offset … offset+count) with independent standard normal variates: the same values, in the
+ * same order, as repeated standardNormal(rng), with the generator inlined on the fast path (≈ 99 % of
+ * draws) for speed.
+ */
 export function fillStandardNormal(rng: Xoshiro128, out: Float64Array, offset = 0, count = out.length - offset): Float64Array {
   const end = offset + count
-  for (let k = offset; k < end; k++) out[k] = standardNormal(rng)
+  let [s0, s1, s2, s3] = rng.getState()
+  for (let k = offset; k < end; k++) {
+    // Two xoshiro128** outputs, as in Xoshiro128.nextUint32.
+    let x = Math.imul(s1, 5)
+    const a = Math.imul((x << 7) | (x >>> 25), 9) >>> 0
+    let t = s1 << 9
+    s2 ^= s0; s3 ^= s1; s1 ^= s2; s0 ^= s3; s2 ^= t; s3 = (s3 << 11) | (s3 >>> 21)
+    x = Math.imul(s1, 5)
+    const b = Math.imul((x << 7) | (x >>> 25), 9) >>> 0
+    t = s1 << 9
+    s2 ^= s0; s3 ^= s1; s1 ^= s2; s0 ^= s3; s2 ^= t; s3 = (s3 << 11) | (s3 >>> 21)
+    const i = a & (LAYERS - 1)
+    const u = ((a >>> 7) * 268435456 + (b >>> 4)) * TWO_POW_M52 - 1
+    if (Math.abs(u) < inner[i]!) { out[k] = u * edge[i]!; continue }
+    // Rare path: hand the state back, finish this variate with the generic code, take the state again.
+    rng.setState([s0, s1, s2, s3])
+    out[k] = finishVariate(rng, i, u)
+    ;[s0, s1, s2, s3] = rng.getState()
+  }
+  rng.setState([s0, s1, s2, s3])
   return out
+}
+
+/** Completes a variate whose first uniform u (layer i) missed the fast path; continues like standardNormal. */
+function finishVariate(rng: Xoshiro128, i: number, u: number): number {
+  if (i === 0) return u < 0 ? -normalTail(rng) : normalTail(rng)
+  const x = u * edge[i]!
+  const y = height[i]! + rng.nextDouble() * (height[i + 1]! - height[i]!)
+  if (y < Math.exp(-0.5 * x * x)) return x
+  return standardNormal(rng)
 }

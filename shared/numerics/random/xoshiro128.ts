@@ -53,6 +53,15 @@ export class Xoshiro128 {
     return result >>> 0
   }
 
+  /** The four 32-bit state words (for inlined generators that write them back with setState). */
+  getState(): [number, number, number, number] {
+    return [this.s0, this.s1, this.s2, this.s3]
+  }
+
+  setState(state: [number, number, number, number]): void {
+    [this.s0, this.s1, this.s2, this.s3] = state
+  }
+
   /** Uniform double in [0, 1) with 53 random bits. */
   nextDouble(): number {
     const a = this.nextUint32() >>> 5, b = this.nextUint32() >>> 6
