@@ -9,6 +9,8 @@ import { closeDB } from '../server/utils/db'
 import { ThreadPool } from './threadPool'
 import { heartbeat, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS, unclaimedPendingTasks } from './taskStore'
 import { createTaskRunner } from './runTask'
+// Method checks: their own queue, one check at a time per process, on a dedicated thread.
+import { startMethodCheckWorker } from './methodCheckWorker'
 
 const workerId = `${hostname()}:${process.pid}:${randomBytes(3).toString('hex')}`
 const threads = Number(process.env.TESSERA_WORKER_THREADS ?? Math.max(1, availableParallelism()))
@@ -33,11 +35,13 @@ const sweep = setInterval(async () => {
     for (const t of await unclaimedPendingTasks()) await enqueueTasks([t.id], t.attempts)
   } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
 }, Math.min(10, STALE_AFTER_SECONDS / 2) * 1000)
+const methodChecks = await startMethodCheckWorker({ workerId, log })
 log(`ready with ${threads} thread(s)`)
 
 async function shutdown() {
   clearInterval(beat)
   clearInterval(sweep)
+  await methodChecks.stop()
   const released = await releaseOwnedTasks([...owned], workerId)
   for (const t of released) await enqueueTasks([t.id], t.attempts)
   await stopBoss()

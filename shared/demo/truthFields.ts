@@ -12,6 +12,9 @@ import { upsample } from '../numerics/interp/upsample'
 import { DEMO_GRID } from './region'
 import { synthesiseDemoEnsembles, type DemoVariable } from './synthesise'
 
+/** Keys of the demo truth fields, in the order synthesiseDemoTruths returns them. */
+export const DEMO_TRUTH_KEYS = ['serevan-gust-front', 'serevan-temperature-range', 'synthetic-matern32'] as const
+
 /** Fine cells per demo coarse cell along each axis. */
 export const DEMO_TRUTH_REFINEMENT = 8
 
@@ -71,7 +74,7 @@ export function synthesiseDemoTruths(): DemoTruth[] {
 
   return [
     {
-      key: 'serevan-gust-front',
+      key: DEMO_TRUTH_KEYS[0],
       name: 'Serevan Coast — gusts along a front, fine truth (invented demo)',
       description: 'Invented: a demo gust field with Matérn-3/2 detail (ℓ ≈ 21 km, σ 2.2 m/s) added on the fine grid.',
       variable: 'gust', standardName: 'wind_speed_of_gust', units: 'm s-1', validTime: gust.validTime, ...common,
@@ -80,7 +83,7 @@ export function synthesiseDemoTruths(): DemoTruth[] {
       detail: gustDetail,
     },
     {
-      key: 'serevan-temperature-range',
+      key: DEMO_TRUTH_KEYS[1],
       name: 'Serevan Coast — 2 m temperature over the Kaldor Range, fine truth (invented demo)',
       description: 'Invented: a demo 2 m temperature field with Matérn-5/2 detail (ℓ ≈ 31 km, σ 0.9 °C) added on the fine grid.',
       variable: 'temperature', standardName: 'air_temperature', units: 'degC', validTime: temperature.validTime, ...common,
@@ -88,7 +91,7 @@ export function synthesiseDemoTruths(): DemoTruth[] {
       detail: tempDetail,
     },
     {
-      key: 'synthetic-matern32',
+      key: DEMO_TRUTH_KEYS[2],
       name: 'Synthetic Matérn-3/2 field with known covariance (invented demo)',
       description: 'Synthetic, not a weather situation: 8 °C plus a Matérn-3/2 random field (ℓ ≈ 41 km, σ 2.5 °C) exactly as the method assumes.',
       variable: 'temperature', standardName: 'air_temperature', units: 'degC', validTime: temperature.validTime, ...common,

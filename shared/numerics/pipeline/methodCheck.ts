@@ -36,6 +36,8 @@ import {
   type MethodCheckReport, type MethodCheckSettings, type SpectrumSeries,
 } from './methodCheckReport'
 
+export { METHOD_CHECK_DEFAULTS } from './methodCheckReport'
+
 export interface MethodCheckInput {
   /** The fine truth, row-major nx×ny, every value finite. */
   truth: ArrayLike<number>
@@ -54,14 +56,6 @@ export const SPECTRUM_AGREEMENT_FACTOR = 2
 /** Largest number of conditional samples. */
 export const MAX_SAMPLES = 100
 
-/** Defaults of the settings a user may leave out (the page, the routes and `tessera check` share them). */
-export const METHOD_CHECK_DEFAULTS: Readonly<Omit<MethodCheckSettings, 'factor'>> = {
-  kernel: 'auto',
-  samples: 20,
-  seed: 1,
-  thresholds: { kind: 'percentile', values: [75, 90, 97] },
-  neighbourhoods: [1, 3, 5, 9, 17, 33, 65],
-}
 
 interface Baseline { id: string; label: string; method: InterpolationMethod; preserve: boolean }
 

@@ -177,5 +177,14 @@ export interface MethodCheckHeadline {
   spreadSkill: number | null
 }
 
+/** Defaults of the settings a user may leave out (the page, the routes and `tessera check` share them). */
+export const METHOD_CHECK_DEFAULTS: Readonly<Omit<MethodCheckSettings, 'factor'>> = {
+  kernel: 'auto',
+  samples: 20,
+  seed: 1,
+  thresholds: { kind: 'percentile', values: [75, 90, 97] },
+  neighbourhoods: [1, 3, 5, 9, 17, 33, 65],
+}
+
 /** Progress reports: a fraction in [0, 1] and what is being done. */
 export type MethodCheckProgress = (fraction: number, stage: string) => void
