@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest'
 import { CholeskyDecomposition, Matrix } from 'ml-matrix'
 import { blockMeans, createDownscaler, type DownscalerSpec } from '../../../shared/numerics/grf/downscaler'
 import { denseConditioning } from '../../../shared/numerics/grf/denseConditioning'
-import type { KernelParams } from '../../../shared/numerics/grf/kernels'
+import { covarianceFunction, type KernelParams } from '../../../shared/numerics/grf/kernels'
+import { coarseCovarianceTable } from '../../../shared/numerics/grf/changeOfSupport'
 
 function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let m = 0
@@ -131,6 +132,19 @@ describe('sample covariance of seeded conditional samples converges to the poste
     for (let i = 0; i < W; i++) {
       const m = samples.reduce((s, x) => s + x[i]!, 0) / n
       expect(Math.abs(m - mean[i]!)).toBeLessThan(4.5 * Math.sqrt(post.get(i, i) / n) + 1e-12)
+    }
+  })
+})
+
+describe('coarse covariance from the torus spectrum', () => {
+  it('equals the change-of-support table c_B(Δ) = Σ w(δx)w(δy)k(bΔ+δ) (Kyriakidis 2004) on every window lag', () => {
+    for (const kernel of [{ kernel: 'matern32', lengthScale: 5, variance: 2 }, { kernel: 'se', lengthScale: 3, variance: 1 }] as KernelParams[]) {
+      const spec: DownscalerSpec = { coarse: coarseField(6, 5), nx: 6, ny: 5, factor: 3, kernel, mean: 0 }
+      const C = createDownscaler(spec).model.covariance
+      const table = coarseCovarianceTable(covarianceFunction(kernel), 3, 6, 5)
+      for (let dy = -4; dy <= 4; dy++) for (let dx = -5; dx <= 5; dx++) {
+        expect(Math.abs(C.entry(dx, dy) - table[(dy + 4) * 11 + dx + 5]!)).toBeLessThan(1e-12)
+      }
     }
   })
 })
