@@ -10,11 +10,19 @@ export interface Scale {
   range: [number, number]
 }
 
+/**
+ * Pixel coordinates rounded to 1/100 px: server and browser may differ in the last bit of
+ * Math.cos or Math.log10, and rounded attributes keep server-rendered SVG equal to the hydrated one.
+ */
+export function roundPx(value: number): number {
+  return Math.round(value * 100) / 100
+}
+
 export function linearScale(domain: [number, number], range: [number, number]): Scale {
   const [d0, d1] = domain
   const [r0, r1] = range
   const span = d1 - d0 || 1
-  const scale = ((v: number) => r0 + ((v - d0) / span) * (r1 - r0)) as Scale
+  const scale = ((v: number) => roundPx(r0 + ((v - d0) / span) * (r1 - r0))) as Scale
   scale.domain = domain
   scale.range = range
   return scale
@@ -66,6 +74,8 @@ export function logTicks(lo: number, hi: number): number[] {
       if (v >= lo * (1 - 1e-9) && v <= hi * (1 + 1e-9)) ticks.push(v)
     }
   }
+  // A range narrower than the mantissa steps: label its two ends instead.
+  if (ticks.length < 2) return [lo, hi].map((v) => Number(v.toPrecision(3)))
   return ticks
 }
 

@@ -2,7 +2,7 @@
  * Geometry of the small extent map: a lon/lat frame around a grid outline, an equirectangular
  * projection scaled by cos(latitude) at the frame's centre, graticule lines and land rings.
  */
-import { linearTicks } from './chartAxes'
+import { linearTicks, roundPx } from './chartAxes'
 
 export type LonLat = [number, number]
 
@@ -52,7 +52,7 @@ export function frameAround(outline: LonLat[], width = 320, padding = 0.5, minSp
   // Fit the frame inside width × height with the same scale on both axes (no distortion beyond cos φ).
   const scale = Math.min(width / ((east - west) * kx), height / (north - south))
   const cx = (west + east) / 2, cy = (south + north) / 2
-  const project = ([lon, lat]: LonLat): [number, number] => [width / 2 + (lon - cx) * kx * scale, height / 2 - (lat - cy) * scale]
+  const project = ([lon, lat]: LonLat): [number, number] => [roundPx(width / 2 + (lon - cx) * kx * scale), roundPx(height / 2 - (lat - cy) * scale)]
   // The visible degrees after fitting (the frame may show a little more on one axis).
   const halfLon = width / 2 / (kx * scale), halfLat = height / 2 / scale
   const frame = { west: cx - halfLon, east: cx + halfLon, south: cy - halfLat, north: cy + halfLat }
