@@ -65,7 +65,7 @@ export function downscaleMember(input: DownscaleMemberInput): DownscaleMemberOut
   const kmPerFine = input.spacingKm / factor
   const downscaler = createDownscaler({
     coarse, nx, ny, factor,
-    kernel: { kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nu: fit.nu },
+    kernel: { kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nu: fit.nu, nugget: fit.nugget },
     mean: fit.mean,
   })
   const samples = downscaler.samples(input.samples, input.seed)
