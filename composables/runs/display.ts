@@ -16,10 +16,14 @@ export interface StatusInfo {
   explanation: string
 }
 
-const TONE_NEUTRAL = 'border-ink-300 bg-ink-50 text-ink-900'
-const TONE_ACTIVE = 'border-tide-600 bg-tide-50 text-tide-800'
-const TONE_DONE = 'border-tide-700 bg-tide-100 text-tide-800'
-const TONE_ERROR = 'border-berry-700 bg-berry-50 text-berry-700'
+/** Badge tones for any status list (contrast: tide-800 on tide-50 9.13, on tide-100 8.14, berry-700 on berry-50 8.53, ink-900 on ink-50). */
+export const STATUS_TONES = {
+  neutral: 'border-ink-300 bg-ink-50 text-ink-900',
+  active: 'border-tide-600 bg-tide-50 text-tide-800',
+  done: 'border-tide-700 bg-tide-100 text-tide-800',
+  error: 'border-berry-700 bg-berry-50 text-berry-700',
+} as const
+const { neutral: TONE_NEUTRAL, active: TONE_ACTIVE, done: TONE_DONE, error: TONE_ERROR } = STATUS_TONES
 
 export const RUN_STATUS_INFO: Record<RunStatus, StatusInfo> = {
   staged: { label: 'Waiting for confirmation', icon: 'upload', tone: TONE_NEUTRAL, explanation: 'The file has been read; nobody has confirmed the preview yet.' },
