@@ -114,7 +114,7 @@ export async function deleteRun(event: H3Event, user: User, id: number) {
 
 /** What lists and pages show of a run (no large arrays). */
 export function runSummary(run: RunRow) {
-  const { grid, footprint: _f, ...rest } = run
+  const { grid, footprint: _f, uploadedById: _u, ...rest } = run
   return { ...rest, grid: { nx: grid.nx, ny: grid.ny, spacingKm: grid.spacingKm, dxKm: grid.dxKm, dyKm: grid.dyKm, crs: grid.crs } }
 }
 

@@ -1,4 +1,4 @@
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin', 'duty_lead', 'forecaster')
-  return { runs: await listRuns() }
+  return { runs: await listRuns(), uploadLimitBytes: maxUploadBytes() }
 })

@@ -90,6 +90,6 @@ export function downscaleMember(input: DownscaleMemberInput): DownscaleMemberOut
     },
     packed: packInt16(samples),
     fineNx, fineNy, blockMeanError,
-    diagnostics: { ...(downscaler.diagnostics as Record<string, unknown>) },
+    diagnostics: { ...(downscaler.diagnostics as unknown as Record<string, unknown>) },
   }
 }
