@@ -1,7 +1,10 @@
-import { customType, index, integer, pgTable, text, timestamp } from 'drizzle-orm/pg-core'
+import { customType, index, integer, jsonb, pgTable, text, timestamp } from 'drizzle-orm/pg-core'
 import { sql } from 'drizzle-orm'
 import { briefings, briefingStatusEnum } from './briefings'
 import { geometry4326 } from './columns'
+
+/** An area as it was when the briefing was last editable (RFC 7946 winding, WGS 84 lon-lat). */
+export interface BriefingAreaShape { id: number; name: string; geometry: { type: 'MultiPolygon'; coordinates: number[][][][] } }
 
 const tsvector = customType<{ data: string; driverData: string }>({ dataType: () => 'tsvector' })
 
@@ -21,6 +24,8 @@ export const briefingSearch = pgTable('briefing_search', {
   hazards: text('hazards').array().notNull().default(sql`'{}'::text[]`),
   areaNames: text('area_names').array().notNull().default(sql`'{}'::text[]`),
   footprint: geometry4326('footprint', 'MultiPolygon'),
+  /** Each area's own outline, frozen with the content (the exports read it). */
+  areaShapes: jsonb('area_shapes').$type<BriefingAreaShape[]>().notNull().default([]),
   refreshedAt: timestamp('refreshed_at', { withTimezone: true }).notNull().defaultNow(),
 }, (t) => [
   index('briefing_search_issued_idx').on(t.issuedAt),
