@@ -20,7 +20,7 @@ export function memoryDataset(spec: DatasetSpec): Dataset {
   return { dimensions: new Map(Object.entries(spec.dims)), variables, attributes: {} }
 }
 
-/** Invented 2-member, 2-lead-time, 3 × 4 temperature ensemble in K: value = 280 + t + 0.5 m + 0.1 j + 0.01 i. */
+/** Invented 2-member, 2-lead-time, 3 × 4 temperature ensemble in K over open ocean (44–43° S, 20–18.5° W): value = 280 + t + 0.5 m + 0.1 j + 0.01 i. */
 export function baseSpec(): DatasetSpec {
   const values: number[] = []
   for (let t = 0; t < 2; t++) for (let m = 0; m < 2; m++) for (let j = 0; j < 3; j++) for (let i = 0; i < 4; i++) values.push(280 + t + 0.5 * m + 0.1 * j + 0.01 * i)
@@ -30,8 +30,8 @@ export function baseSpec(): DatasetSpec {
       time: { dims: ['time'], attrs: { standard_name: 'time', units: 'hours since 2031-03-04 00:00:00' }, values: [6, 12] },
       forecast_reference_time: { dims: [], attrs: { standard_name: 'forecast_reference_time', units: 'hours since 2031-03-04 00:00:00' }, values: [0] },
       realization: { dims: ['realization'], attrs: { standard_name: 'realization' }, values: [0, 1] },
-      lat: { dims: ['lat'], attrs: { units: 'degrees_north' }, values: [10, 10.5, 11] },
-      lon: { dims: ['lon'], attrs: { units: 'degrees_east' }, values: [20, 20.5, 21, 21.5] },
+      lat: { dims: ['lat'], attrs: { units: 'degrees_north' }, values: [-44, -43.5, -43] },
+      lon: { dims: ['lon'], attrs: { units: 'degrees_east' }, values: [-20, -19.5, -19, -18.5] },
       t2m: { dims: ['time', 'realization', 'lat', 'lon'], type: 'float', attrs: { standard_name: 'air_temperature', units: 'K' }, values },
     },
   }
