@@ -164,11 +164,32 @@ export function statementSentence(scale: LikelihoodScale, f: StatementFacts): st
     case 'areaMean':
       return `${capitalise(words)} (${number}) that, averaged over ${f.areaName}, ${f.event} ${f.when}.`
     case 'fraction':
-      return `Expected share of ${f.areaName} where ${f.event} ${f.when}: ${formatPercent(f.value)} (${words}; ${number}).`
+      return `Expected share of ${f.areaName} where ${f.event} ${f.when}: ${formatPercent(f.value)} (${words}; ${scenarioCountText(f)}).`
   }
 }
 
 /** The number as printed in the statements table, always from the computed value. */
 export function statementNumberText(f: Pick<StatementFacts, 'kind' | 'value' | 'count' | 'scenarios' | 'members' | 'membersShowing'>): string {
   return `${formatPercent(f.value)} (${scenarioCountText(f)})`
+}
+
+/**
+ * Checks that edited wording does not state a different number: every "N %" must be the computed
+ * percentage (or a bound of the scale's bands), every "k of N" the scenario or member count.
+ * Returns the problem in words, or null when the wording is consistent.
+ */
+export function wordingNumberProblem(text: string, scale: LikelihoodScale, f: Pick<StatementFacts, 'value' | 'count' | 'scenarios' | 'members' | 'membersShowing'>): string | null {
+  const computed = Math.round(f.value * 100)
+  const allowedPercents = new Set([computed, ...scale.bands.flatMap((b) => [Math.round(b.lower * 100), Math.round(b.upper * 100)])])
+  if (f.value > 0 && f.value < 0.005) allowedPercents.add(1)
+  if (f.value < 1 && f.value > 0.995) allowedPercents.add(99)
+  for (const m of text.matchAll(/(\d+(?:[.,]\d+)?)\s*(?:%|per\s?cent)/gi)) {
+    const stated = Number(m[1]!.replace(',', '.'))
+    if (!allowedPercents.has(stated)) return `The wording says ${m[0]}, but the computed value is ${formatPercent(f.value)}. Numbers come from the run and cannot be changed; edit the words only.`
+  }
+  const pairs = new Set([`${f.count ?? ''}/${f.scenarios}`, `${f.membersShowing ?? ''}/${f.members}`])
+  for (const m of text.matchAll(/(\d+)\s+(?:out\s+)?of\s+(\d+)/gi)) {
+    if (!pairs.has(`${m[1]}/${m[2]}`)) return `The wording says “${m[0]}”, but the computed count is ${scenarioCountText(f)}. Counts come from the run and cannot be changed.`
+  }
+  return null
 }
