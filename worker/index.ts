@@ -9,6 +9,7 @@ import { closeDB } from '../server/utils/db'
 import { ThreadPool } from './threadPool'
 import { heartbeat, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS, unclaimedPendingTasks } from './taskStore'
 import { createTaskRunner } from './runTask'
+import { startMailSender } from './mail'
 // Method checks: their own queue, one check at a time per process, on a dedicated thread.
 import { startMethodCheckWorker } from './methodCheckWorker'
 
@@ -36,12 +37,15 @@ const sweep = setInterval(async () => {
   } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
 }, Math.min(10, STALE_AFTER_SECONDS / 2) * 1000)
 const methodChecks = await startMethodCheckWorker({ workerId, log })
+// The mail outbox (briefings, notices, invitations) is sent by the same process.
+const mail = await startMailSender({ workerId, log })
 log(`ready with ${threads} thread(s)`)
 
 async function shutdown() {
   clearInterval(beat)
   clearInterval(sweep)
   await methodChecks.stop()
+  await mail.stop()
   const released = await releaseOwnedTasks([...owned], workerId)
   for (const t of released) await enqueueTasks([t.id], t.attempts)
   await stopBoss()

@@ -6,6 +6,9 @@ export const DOWNSCALE_QUEUE = 'downscale-task'
 
 export interface DownscaleJob { taskId: number }
 
+/** Wake-up calls for the mail sender: the outbox table holds the messages, a job only says "look now". */
+export const MAIL_QUEUE = 'mail-outbox'
+
 let boss: Promise<PgBoss> | undefined
 
 /** Process-wide pg-boss client, started and with its queues created (send to a missing queue is a silent no-op). */
@@ -16,6 +19,7 @@ export function useBoss(): Promise<PgBoss> {
     await b.start()
     // Long expiry: a dead worker is detected by the task heartbeat (worker/recovery.ts), not by pg-boss.
     await b.createQueue(DOWNSCALE_QUEUE, { name: DOWNSCALE_QUEUE, retryLimit: 5, retryDelay: 5, retryBackoff: true, expireInSeconds: 3600 })
+    await b.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, retryLimit: 0, expireInSeconds: 900 })
     return b
   })()
   return boss

@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto'
 import { and, eq, gt, isNull } from 'drizzle-orm'
 import { useDB, tables, type Database } from './db'
 
-const TOKEN_LIFETIME_DAYS = 7
+export const TOKEN_LIFETIME_DAYS = 7
 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex')
 

@@ -6,6 +6,7 @@ import type { Role } from '../../shared/utils/roles'
 import { useDB, tables } from './db'
 import { recordAudit } from './audit'
 import { issuePasswordToken, setPasswordUrl } from './passwordTokens'
+import { queueInvitationMail } from './briefingMail'
 
 type UserRow = typeof tables.users.$inferSelect
 
@@ -37,8 +38,8 @@ export function baseUrl(event: H3Event): string {
 }
 
 /**
- * Creates an account without a password and a one-time set-password link for it.
- * Until mail delivery exists the link is printed to the server log and returned to the admin.
+ * Creates an account without a password and a one-time set-password link for it. The link is
+ * e-mailed through the outbox (sent by the worker) and also returned to the admin.
  */
 export async function inviteUser(event: H3Event, actor: User, input: { email: string; displayName: string; role: Role }) {
   return useDB().transaction(async (tx) => {
@@ -48,18 +49,21 @@ export async function inviteUser(event: H3Event, actor: User, input: { email: st
     const token = await issuePasswordToken(row!.id, 'invite', actor.id, tx)
     await recordAudit({ actor, action: 'user.invite', entityType: 'user', entityId: row!.id, after: publicUser(row!) }, event, tx)
     const inviteUrl = setPasswordUrl(baseUrl(event), token)
-    console.info(`[mail stand-in] invitation for ${row!.email}: ${inviteUrl}`)
+    await queueInvitationMail(tx, { user: row!, url: inviteUrl, purpose: 'invite', actorId: actor.id })
     return { user: publicUser(row!, true), inviteUrl }
   })
 }
 
 export async function reissueInvite(event: H3Event, actor: User, id: number) {
   const row = await findUserById(id)
-  const token = await issuePasswordToken(row.id, row.passwordHash ? 'reset' : 'invite', actor.id)
-  await recordAudit({ actor, action: 'user.password_link', entityType: 'user', entityId: row.id }, event)
-  const inviteUrl = setPasswordUrl(baseUrl(event), token)
-  console.info(`[mail stand-in] set-password link for ${row.email}: ${inviteUrl}`)
-  return { inviteUrl }
+  const purpose = row.passwordHash ? 'reset' : 'invite'
+  return useDB().transaction(async (tx) => {
+    const token = await issuePasswordToken(row.id, purpose, actor.id, tx)
+    await recordAudit({ actor, action: 'user.password_link', entityType: 'user', entityId: row.id }, event, tx)
+    const inviteUrl = setPasswordUrl(baseUrl(event), token)
+    await queueInvitationMail(tx, { user: row, url: inviteUrl, purpose, actorId: actor.id })
+    return { inviteUrl }
+  })
 }
 
 /**
