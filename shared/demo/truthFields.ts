@@ -10,7 +10,7 @@ import { createDownscaler } from '../numerics/grf/downscaler'
 import type { KernelParams } from '../numerics/grf/kernels'
 import { upsample } from '../numerics/interp/upsample'
 import { DEMO_GRID } from './region'
-import { synthesiseDemoEnsembles, type DemoVariable } from './synthesise'
+import { synthesiseDemoEnsembles, type DemoEnsemble, type DemoVariable } from './synthesise'
 
 /** Keys of the demo truth fields, in the order synthesiseDemoTruths returns them. */
 export const DEMO_TRUTH_KEYS = ['serevan-gust-front', 'serevan-temperature-range', 'synthetic-matern32'] as const
@@ -18,19 +18,12 @@ export const DEMO_TRUTH_KEYS = ['serevan-gust-front', 'serevan-temperature-range
 /** Fine cells per demo coarse cell along each axis. */
 export const DEMO_TRUTH_REFINEMENT = 8
 
-export interface DemoTruth {
+/** A fine truth field; grid and variable fields as for the demo ensembles (lon/lat: fine cell centres, degrees, ascending). */
+export interface DemoTruth extends Pick<DemoEnsemble, 'variable' | 'standardName' | 'units' | 'nx' | 'ny' | 'lon' | 'lat'> {
   /** Stable identifier (kept in the database, used to avoid seeding twice). */
   key: string
   name: string
   description: string
-  variable: DemoVariable
-  standardName: string
-  units: string
-  nx: number
-  ny: number
-  /** Fine cell centres (degrees), ascending. */
-  lon: Float64Array
-  lat: Float64Array
   validTime: string
   /** Row-major ny×nx, j = 0 the southernmost row. */
   values: Float32Array
