@@ -160,7 +160,7 @@ export function briefingCapXml(b: ExportBriefing): string {
       el('instruction', 'Use with your own procedures. Follow official warnings where they exist.', i2),
       el('web', b.portalUrl, i2),
       ...(b.contact ? [el('contact', b.contact, i2)] : []),
-      `${i2}<parameter>`, el('valueName', 'tesseraThreshold', i3), el('value', `${threshold.label}: ${threshold.direction === 'below' ? '≤' : '≥'} ${threshold.value}`, i3), `${i2}</parameter>`,
+      `${i2}<parameter>`, el('valueName', 'tesseraThreshold', i3), el('value', `${threshold.label}: ${threshold.direction === 'below' ? '≤' : '≥'} ${threshold.value}${g.hazard ? ` ${HAZARD_DEFINITIONS[g.hazard].displayUnits}` : ''}`, i3), `${i2}</parameter>`,
       ...(pMax !== null ? [`${i2}<parameter>`, el('valueName', 'tesseraMaximumProbability', i3), el('value', round(pMax, 3), i3), `${i2}</parameter>`] : []),
       ...(b.pdf ? [
         `${i2}<resource>`, el('resourceDesc', 'Briefing (PDF, the document of record)', i3), el('mimeType', 'application/pdf', i3),
