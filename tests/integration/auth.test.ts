@@ -5,6 +5,9 @@ import { seal, defaults } from 'iron-webcrypto'
 import { call, demoAccount, freshAddress, sessionCookie, signIn, signInAs, uniqueEmail } from '../support/http'
 import { DEMO_PASSWORD } from '../../scripts/lib/demoAccounts'
 
+// iron-webcrypto types subtle.* with Uint8Array<ArrayBufferLike>, the DOM lib with ArrayBuffer-backed views only;
+// at run time it is the same Web Crypto object.
+const webCrypto = globalThis.crypto as unknown as Parameters<typeof seal>[0]
 const db = new pg.Client({ connectionString: process.env.DATABASE_URL })
 await db.connect()
 afterAll(() => db.end())
@@ -105,13 +108,13 @@ describe('sessions', () => {
       id: crypto.randomUUID(), createdAt: Date.now(),
       data: { user: { id: row.id, email: row.email, displayName: row.display_name, role: row.role }, loggedInAt: Date.now() - 13 * 3600_000, sessionVersion: row.session_version },
     }
-    const sealed = await seal(globalThis.crypto, session, password!, { ...defaults, ttl: 12 * 3600_000 })
+    const sealed = await seal(webCrypto, session, password!, { ...defaults, ttl: 12 * 3600_000 })
     const res = await call('GET', '/api/profile', { cookie: `nuxt-session=${sealed}` })
     expect(res.status).toBe(401)
     expect(res.body.message).toMatch(/expired/)
     // The same forged cookie with a recent sign-in time is accepted: the age check is what refused it.
     session.data.loggedInAt = Date.now()
-    const ok = await seal(globalThis.crypto, session, password!, { ...defaults, ttl: 12 * 3600_000 })
+    const ok = await seal(webCrypto, session, password!, { ...defaults, ttl: 12 * 3600_000 })
     expect((await call('GET', '/api/profile', { cookie: `nuxt-session=${ok}` })).status).toBe(200)
   })
 

@@ -24,7 +24,8 @@ export async function call(method: string, path: string, opts: { cookie?: string
       ...(opts.cookie ? { cookie: opts.cookie } : {}),
       ...opts.headers,
     },
-    body: opts.raw !== undefined ? opts.raw : opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
+    // A copy backed by a plain ArrayBuffer: fetch's BodyInit does not accept views that may sit on a SharedArrayBuffer.
+    body: opts.raw !== undefined ? new Uint8Array(opts.raw) : opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
   })
   const text = await res.text()
   let body: any = text
