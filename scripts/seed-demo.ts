@@ -3,6 +3,7 @@ import { useDB, closeDB, tables } from '../server/utils/db'
 import { hashPasswordForScript } from './lib/passwordHash'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './lib/demoAccounts'
 import { DEMO_SIZES, seedDemoRuns } from './lib/demoRuns'
+import { seedDemoDirectory } from './lib/demoDirectory'
 
 const db = useDB()
 const passwordHash = await hashPasswordForScript(DEMO_PASSWORD)
@@ -16,6 +17,7 @@ for (const account of DEMO_ACCOUNTS) {
   }
 }
 console.log(`[tessera] demo accounts: ${created} created, ${DEMO_ACCOUNTS.length - created} already there`)
+await seedDemoDirectory((m) => console.log(`[tessera] ${m}`))
 // TESSERA_DEMO_SIZE=small keeps test set-up quick; npm start seeds the full scenario.
 const size = process.env.TESSERA_DEMO_SIZE === 'small' ? 'small' : 'full'
 await seedDemoRuns(DEMO_SIZES[size], (m) => console.log(`[tessera] ${m}`))

@@ -37,9 +37,13 @@ const serverEnv = {
   NUXT_PUBLIC_DEMO_MODE: production ? 'false' : 'true',
   NUXT_PUBLIC_BASE_URL: process.env.NUXT_PUBLIC_BASE_URL ?? `http://localhost:${port}`,
 }
+// Demo mode: a local SMTP stand-in on 127.0.0.1 takes the mail the worker sends (admin "Mail log").
+const smtpPort = process.env.TESSERA_SMTP_STAND_IN_PORT ?? '2525'
+const workerEnv = production ? env : { ...env, TESSERA_SMTP_HOST: '127.0.0.1', TESSERA_SMTP_PORT: smtpPort }
 const children = [
   startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv }),
-  startChild('worker', 'npx', ['tsx', 'worker/index.ts'], { env }),
+  ...(production ? [] : [startChild('mail', 'npx', ['tsx', 'scripts/smtp-stand-in.ts'], { env: { ...env, TESSERA_SMTP_STAND_IN_PORT: smtpPort } })]),
+  startChild('worker', 'npx', ['tsx', 'worker/index.ts'], { env: workerEnv }),
 ]
 log(`Tessera is starting on http://localhost:${port} ${production ? '' : '(demo mode: accounts in README.md)'} — Ctrl-C stops it`)
 

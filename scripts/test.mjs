@@ -41,6 +41,7 @@ if (wanted('unit')) add(vitest('unit', ['numerics', 'unit']))
 
 let cluster = null
 let server = null
+let mailStandIn = null
 try {
   if (wanted('integration') || wanted('e2e')) {
     const dataDir = resolveDataDir(join(ROOT, '.data', 'pg-test'))
@@ -65,9 +66,12 @@ try {
       TESSERA_UPLOAD_DIR: join(resultsDir, 'uploads'),
     }
     server = startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv })
+    // The local SMTP stand-in the tests' workers send to (what arrives lands in received_mail).
+    const smtpPort = process.env.TESSERA_TEST_SMTP_PORT ?? '2526'
+    mailStandIn = startChild('mail', process.execPath, ['--import', 'tsx', 'scripts/smtp-stand-in.ts'], { env: { ...env, TESSERA_SMTP_STAND_IN_PORT: smtpPort } })
     // Integration tests start and kill their own workers (recovery tests); none runs by default.
     await waitForHttp(`${baseUrl}/api/health`)
-    const testEnv = { ...env, TESSERA_UPLOAD_DIR: serverEnv.TESSERA_UPLOAD_DIR, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
+    const testEnv = { ...env, TESSERA_SMTP_HOST: '127.0.0.1', TESSERA_SMTP_PORT: smtpPort, TESSERA_MAIL_RETRY_SECONDS: '1', NUXT_PUBLIC_BASE_URL: baseUrl, TESSERA_UPLOAD_DIR: serverEnv.TESSERA_UPLOAD_DIR, TESSERA_TEST_BASE_URL: baseUrl, TESSERA_TEST_RESULTS: resultsDir, TESSERA_TEST_SESSION_PASSWORD: serverEnv.NUXT_SESSION_PASSWORD }
     const projects = ['integration', 'e2e'].filter(wanted)
     add(vitest('integration+e2e', projects, testEnv))
   }
@@ -76,6 +80,7 @@ try {
   totals.failed += 1
 } finally {
   server?.kill('SIGTERM')
+  mailStandIn?.kill('SIGTERM')
   try { cluster?.stop() } catch (err) { console.error(err) }
   if (cluster) removeCluster(cluster.dataDir)
 }
