@@ -121,9 +121,10 @@ export async function createMethodCheckBatch(event: H3Event, user: User, input: 
   const truths = await truthsById(truthIds)
   for (const id of truthIds) for (const f of factors) assertBlocks(truths.get(id)!, f)
   const { name, truthIds: _t, factors: _f, ...shared } = input
+  const { factor: _none, ...common } = settingsFor(shared, 0)
   const db = useDB()
   const { batchId, ids } = await db.transaction(async (tx) => {
-    const [batch] = await tx.insert(tables.methodCheckBatches).values({ name, settings: { ...settingsFor(shared, 0), factors }, authorId: user.id }).returning({ id: tables.methodCheckBatches.id })
+    const [batch] = await tx.insert(tables.methodCheckBatches).values({ name, settings: { ...common, factors }, authorId: user.id }).returning({ id: tables.methodCheckBatches.id })
     const rows = truthIds.flatMap((id) => factors.map((f) => {
       const t = truths.get(id)!
       return checkValues(t, settingsFor(shared, f), `${t.name}, b = ${f}`, user.id, batch!.id)
