@@ -55,6 +55,13 @@ export interface DownscalerDiagnostics {
   stdWindow?: number
 }
 
+/**
+ * Fills two planes (re, im) of independent standard normal white noise on the sampling torus
+ * (torusNx × torusNy, row-major; the fine window is the top-left windowNx × windowNy corner) for
+ * sample pair `pair` (samples 2·pair and 2·pair + 1).
+ */
+export type WhiteNoiseSource = (pair: number, re: Float64Array, im: Float64Array, torusNx: number, torusNy: number, windowNx: number, windowNy: number) => void
+
 export interface Downscaler {
   /** Fine grid size (b·nx × b·ny). */
   readonly nx: number
@@ -71,6 +78,18 @@ export interface Downscaler {
   unconditional(seed: number, index?: number): Float64Array
   /** Conditions a given zero-mean unconditional fine field z in the spatial domain: m + z + K Aᵀ C⁻¹(y − A m − A z). */
   condition(z: Float64Array): Float64Array
+  /**
+   * Conditional samples 0…count−1 coloured from supplied spatial white noise instead of the seeded
+   * spectrum: the unconditional field of pair p is K^{1/2} w with w the two planes `noise` fills
+   * (circulant square root on the torus, one extra forward FFT per pair). For time-coherent streams.
+   */
+  samplesFromNoise(count: number, noise: WhiteNoiseSource): Float64Array[]
+  /**
+   * Re-conditions fields to changed block-mean targets: x' = x + K Aᵀ C⁻¹ Δ for each field x and its
+   * coarse change Δ (row-major nx×ny, missing cells ignored). Linear, so A x' = A x + Δ on observed
+   * blocks; costs one coarse solve and one fine FFT per two fields. Results are new arrays.
+   */
+  recondition(fields: Float64Array[], changes: Float64Array[]): Float64Array[]
   readonly diagnostics: DownscalerDiagnostics
   /** The set-up, for the posterior-std module and tests. */
   readonly model: ConditioningModel
@@ -186,10 +205,59 @@ class TorusDownscaler implements Downscaler {
     for (let k = 0; k < s.length; k++) { re[k]! *= s[k]!; im[k]! *= s[k]! }
   }
 
+  /** Draws the spectrum of pair `pair` from spatial white noise: √λ · FFT(w₁ + i w₂). */
+  private drawSpectrumFromNoise(noise: WhiteNoiseSource, pair: number): void {
+    const { embedding: e } = this.model
+    this.re.fill(0); this.im.fill(0)
+    noise(pair, this.re, this.im, e.nx, e.ny, this.nx, this.ny)
+    fft2d(this.re, this.im, e.nx, e.ny)
+    // √(Mλ)/√M = √λ: C^{1/2} w = IFFT(√λ FFT(w)) has covariance IFFT diag(λ) FFT = C.
+    const s = this.sqrtScaledLambda, re = this.re, im = this.im, inv = 1 / Math.sqrt(s.length)
+    for (let k = 0; k < s.length; k++) { const f = s[k]! * inv; re[k]! *= f; im[k]! *= f }
+  }
+
+  samplesFromNoise(count: number, noise: WhiteNoiseSource): Float64Array[] {
+    if (!Number.isInteger(count) || count < 0) throw new Error(`sample count must be a non-negative integer, got ${count}`)
+    const out: Float64Array[] = []
+    for (let p = 0; 2 * p < count; p++) {
+      this.drawSpectrumFromNoise(noise, p)
+      const [a, b] = this.conditionDrawnPair()
+      out.push(a)
+      if (2 * p + 1 < count) out.push(b)
+    }
+    return out
+  }
+
+  recondition(fields: Float64Array[], changes: Float64Array[]): Float64Array[] {
+    const { spec, covariance } = this.model
+    const m = spec.nx * spec.ny, n = this.nx * this.ny
+    if (fields.length !== changes.length) throw new Error(`recondition needs one change per field, got ${changes.length} for ${fields.length}`)
+    const out: Float64Array[] = []
+    for (let p = 0; p < fields.length; p += 2) {
+      const rhs = changes.slice(p, p + 2).map((d) => {
+        if (d.length !== m) throw new Error(`target change has ${d.length} values, expected ${m}`)
+        return d.map((v, k) => (covariance.observed[k] ? v : 0))
+      })
+      const corrections = this.krigingCorrection(this.solve(rhs))
+      corrections.forEach((c, q) => {
+        const x = fields[p + q]!
+        if (x.length !== n) throw new Error(`field has ${x.length} values, expected ${n}`)
+        for (let k = 0; k < n; k++) c[k]! += x[k]!
+        out.push(c)
+      })
+    }
+    return out
+  }
+
   /** Conditional samples 2p and 2p+1 of `seed`, with one fine inverse FFT. */
   private conditionalPair(seed: number, pair: number): [Float64Array, Float64Array] {
-    const { embedding: e, blocks, spec, baseResidual, covariance, priorFine } = this.model
     this.drawSpectrum(seed, pair)
+    return this.conditionDrawnPair()
+  }
+
+  /** Conditions the unconditional pair whose spectrum is in (re, im): one fine inverse FFT. */
+  private conditionDrawnPair(): [Float64Array, Float64Array] {
+    const { embedding: e, blocks, spec, baseResidual, covariance, priorFine } = this.model
     // Block means of both samples at once: fold onto the coarse torus, one small inverse FFT.
     blocks.foldBlockMeans(this.re, this.im, this.coarseRe, this.coarseIm)
     fft2d(this.coarseRe, this.coarseIm, blocks.coarseNx, blocks.coarseNy, true)
