@@ -18,6 +18,8 @@ export interface StandInOptions {
   listener?: string
   refuseFirstRcpt?: number
   refuseFirstData?: number
+  /** Reply code of those refusals: 451 (temporary, the default) or a permanent 5xx. */
+  refuseCode?: number
   /** Pause before answering RCPT TO (ms). */
   rcptDelayMs?: number
   /** Pause after storing a message and before answering its end of data (ms). */
@@ -92,7 +94,7 @@ export async function storeReceivedMail(m: ParsedMessage, db: Database = useDB()
   })
 }
 
-const temporary = (message: string) => Object.assign(new Error(message), { responseCode: 451 })
+const refusal = (message: string, code: number) => Object.assign(new Error(message), { responseCode: code })
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms))
 
 /** Starts a stand-in; resolves once it listens. */
@@ -111,7 +113,7 @@ export async function startSmtpStandIn(opts: StandInOptions): Promise<StandIn> {
     async onRcptTo(_address, _session, callback) {
       counts.rcpt++
       if (opts.rcptDelayMs) await pause(opts.rcptDelayMs)
-      if (counts.rcpt <= (opts.refuseFirstRcpt ?? 0)) return callback(temporary('Try again later (the stand-in is refusing recipients for a test)'))
+      if (counts.rcpt <= (opts.refuseFirstRcpt ?? 0)) return callback(refusal('Refused (the stand-in is refusing recipients for a test)', opts.refuseCode ?? 451))
       callback()
     },
     onData(stream, session, callback) {
@@ -120,7 +122,7 @@ export async function startSmtpStandIn(opts: StandInOptions): Promise<StandIn> {
       stream.on('error', (err) => callback(err))
       stream.on('end', async () => {
         counts.data++
-        if (counts.data <= (opts.refuseFirstData ?? 0)) return callback(temporary('Try again later (the stand-in is refusing messages for a test)'))
+        if (counts.data <= (opts.refuseFirstData ?? 0)) return callback(refusal('Refused (the stand-in is refusing messages for a test)', opts.refuseCode ?? 451))
         if ((stream as unknown as { sizeExceeded?: boolean }).sizeExceeded) return callback(Object.assign(new Error('Message too large'), { responseCode: 552 }))
         try {
           const message = await parseMessage(Buffer.concat(chunks), session, listener)

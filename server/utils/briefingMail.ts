@@ -46,14 +46,16 @@ export interface Recipient { contactId: number; name: string; email: string; use
 export async function recipientsOfLists(tx: Pick<Database, 'execute'>, listIds: number[]): Promise<Recipient[]> {
   if (listIds.length === 0) return []
   const res = await tx.execute(sql`
-    SELECT DISTINCT ON (lower(c.email)) c.id AS "contactId", c.name, lower(c.email) AS email, c.user_id AS "userId", o.name AS organisation,
-      array_agg(l.name ORDER BY l.name) OVER (PARTITION BY lower(c.email)) AS lists
+    SELECT (array_agg(c.id ORDER BY c.id))[1] AS "contactId", (array_agg(c.name ORDER BY c.id))[1] AS name, lower(c.email) AS email,
+      (array_agg(c.user_id ORDER BY c.id))[1] AS "userId", (array_agg(o.name ORDER BY c.id))[1] AS organisation,
+      array_agg(DISTINCT l.name ORDER BY l.name) AS lists
     FROM ${tables.distributionListMembers} m
     JOIN ${tables.contacts} c ON c.id = m.contact_id AND c.active
     JOIN ${tables.organisations} o ON o.id = c.organisation_id AND o.active
     JOIN ${L} l ON l.id = m.list_id
     WHERE m.list_id IN ${sql`(${sql.join(listIds.map((id) => sql`${id}`), sql`, `)})`}
-    ORDER BY lower(c.email), c.id`)
+    GROUP BY lower(c.email)
+    ORDER BY lower(c.email)`)
   return res.rows as unknown as Recipient[]
 }
 
