@@ -1,7 +1,7 @@
 // Directory, areas and briefing rows written straight into the test database, so the mail,
 // portal and archive tests do not depend on building briefings through the pages.
 import { createHash, randomBytes } from 'node:crypto'
-import { eq, sql } from 'drizzle-orm'
+import { eq, inArray, sql } from 'drizzle-orm'
 import { useDB, tables } from '../../../server/utils/db'
 import type { BriefingStatement } from '../../../shared/schemas/briefings'
 
@@ -78,6 +78,11 @@ export async function makeBriefing(input: BriefingInput = {}) {
     issuedAt, withdrawnAt: status === 'withdrawn' ? new Date() : null, withdrawnReason: input.withdrawnReason ?? (status === 'withdrawn' ? 'Test withdrawal' : null),
     pdf, pdfSha256: createHash('sha256').update(pdf).digest('hex'),
   }).returning()
+  // An issued version was sent to its lists (what queueBriefingMail records when it is issued).
+  if (issuedAt && input.listKeys?.length) {
+    const lists = await db.select().from(tables.distributionLists).where(inArray(tables.distributionLists.key, input.listKeys.map((l) => l.key)))
+    await db.insert(tables.briefingLists).values(lists.map((l) => ({ briefingId: row!.id, listId: l.id, listName: l.name }))).onConflictDoNothing()
+  }
   return row!
 }
 
