@@ -1,9 +1,10 @@
 /**
  * Block-mean correlation tables of the kernel families used in fitting, at unit variance, for a given
- * length scale ℓ (fine cells). Layout of the 2-D table: as in grf/changeOfSupport.ts.
+ * length scale ℓ (fine cells; the major axis ℓ₁ when anisotropic). Layout of the 2-D table: as in
+ * grf/changeOfSupport.ts.
  */
-import { coarseCovariance1d, isotropicCoarseCovarianceTable, separableCoarseCovarianceTable } from '../grf/changeOfSupport'
-import { correlationAt, decayRadius, type KernelName, type KernelParams } from '../grf/kernels'
+import { coarseCovariance1d, isotropicCoarseCovarianceTable, pointSymmetricCoarseCovarianceTable, separableCoarseCovarianceTable } from '../grf/changeOfSupport'
+import { anisotropyMetric, axisAlignedLengthScales, correlationAt, decayRadius, type Anisotropy, type KernelName, type KernelParams } from '../grf/kernels'
 import '../grf/maternGeneral'
 
 /** Correlation below which the kernel is treated as exactly zero when building tables. */
@@ -27,12 +28,26 @@ export function seCoarseCorrelation1d(lengthScale: number, b: number, m: number)
   return coarseCovariance1d(radialCorrelation('se', lengthScale), b, m).map((v) => (v < NEGLIGIBLE_CORRELATION ? 0 : v))
 }
 
-/** Full 2-D block-mean correlation table of a kernel family at length scale ℓ (unit variance, no nugget). */
-export function coarseCorrelationTable(kernel: KernelName, lengthScale: number, b: number, mx: number, my: number, nu?: number): Float64Array {
-  if (kernel === 'se') {
-    const cx = seCoarseCorrelation1d(lengthScale, b, mx)
-    return separableCoarseCovarianceTable(cx, mx === my ? cx : seCoarseCorrelation1d(lengthScale, b, my))
+/**
+ * Full 2-D block-mean correlation table of a kernel family at length scale ℓ (unit variance, no nugget),
+ * optionally with geometric anisotropy (ℓ = ℓ₁, see grf/kernels.ts). se with axis-aligned axes stays
+ * separable; rotated kernels use the point-symmetric table with the kernel's elliptical cut-off.
+ */
+export function coarseCorrelationTable(kernel: KernelName, lengthScale: number, b: number, mx: number, my: number, nu?: number, anisotropy?: Anisotropy): Float64Array {
+  const params: KernelParams = { kernel, lengthScale, variance: 1, nu, anisotropy }
+  const cutoff = decayRadius(params, NEGLIGIBLE_CORRELATION)
+  if (anisotropy === undefined || anisotropy.ratio === 1) {
+    if (kernel === 'se') {
+      const cx = seCoarseCorrelation1d(lengthScale, b, mx)
+      return separableCoarseCovarianceTable(cx, mx === my ? cx : seCoarseCorrelation1d(lengthScale, b, my))
+    }
+    return isotropicCoarseCovarianceTable(radialCorrelation(kernel, lengthScale, nu), b, mx, my, cutoff)
   }
-  const cutoff = decayRadius({ kernel, lengthScale, variance: 1, nu }, NEGLIGIBLE_CORRELATION)
-  return isotropicCoarseCovarianceTable(radialCorrelation(kernel, lengthScale, nu), b, mx, my, cutoff)
+  const axes = kernel === 'se' ? axisAlignedLengthScales(params) : undefined
+  if (axes) return separableCoarseCovarianceTable(seCoarseCorrelation1d(axes[0], b, mx), seCoarseCorrelation1d(axes[1], b, my))
+  const metric = anisotropyMetric(anisotropy)
+  const [a, c, d] = metric
+  const radial = radialCorrelation(kernel, lengthScale, nu)
+  const correlation = (dx: number, dy: number) => radial(Math.sqrt(Math.max(0, a * dx * dx + 2 * c * dx * dy + d * dy * dy)))
+  return pointSymmetricCoarseCovarianceTable(correlation, b, mx, my, { metric, radius: cutoff })
 }

@@ -11,8 +11,16 @@
  * a curvature standard error, and every evaluated (ℓ, log-likelihood) pair for plotting.
  * Likelihoods: exact dense Cholesky (small m, any missing pattern), exact Kronecker (se, complete grid),
  * debiased Whittle (large grids).
+ *
+ * Geometric anisotropy (option `anisotropy`): 'off' (default) is the isotropic model above; a given shape
+ * { ratio, angle } fixes it and fits ℓ₁ (the major axis) as ℓ; 'fit' searches it by maximum likelihood after
+ * the isotropic fit (anisotropySearch.ts, under a likelihood valid for rotated kernels: dense or Whittle) and
+ * adopts it when the likelihood-ratio test against isotropy rejects at 5% (2·gain > χ²₂,0.95; Wilks 1938),
+ * in which case ℓ, σ², μ, the interval and the profile describe the anisotropic model at the fitted shape.
  */
-import type { KernelName } from '../grf/kernels'
+import type { Anisotropy, KernelName, KernelParams } from '../grf/kernels'
+import { checkAnisotropy } from '../grf/kernels'
+import { searchAnisotropy, structureTensorAnisotropy } from './anisotropySearch'
 import { minimizeBounded } from '../optimize/brentMinimize'
 import { findRootBracketed } from '../optimize/brentRoot'
 import { coarseCorrelationTable } from './coarseCorrelation'
@@ -45,6 +53,30 @@ export interface FitOptions {
   nugget?: number | 'estimate'
   /** Split-cosine taper fraction for the Whittle likelihood (0 = none, 1 = Hann; default DEFAULT_WHITTLE_TAPER). */
   whittleTaper?: number
+  /** Geometric anisotropy: 'off' (default, isotropic), 'fit' (searched, adopted if significant) or a fixed shape. */
+  anisotropy?: 'off' | 'fit' | Anisotropy
+  /** Smallest ratio ℓ₂/ℓ₁ searched by 'fit' (default DEFAULT_MIN_ANISOTROPY_RATIO). */
+  minAnisotropyRatio?: number
+}
+
+/** What the anisotropy option found; the kernel uses it when `adopted`. */
+export interface AnisotropyFit {
+  source: 'fitted' | 'given'
+  /** True when the reported model (ℓ, σ², …) is the anisotropic one. */
+  adopted: boolean
+  /** ℓ₂/ℓ₁ ∈ (0, 1] and θ ∈ [0, π) radians (major axis from the +i column axis towards the +j row axis). */
+  ratio: number
+  angle: number
+  angleDegrees: number
+  /** ℓ₁ and ℓ₂, fine cells. */
+  majorLengthScale: number
+  minorLengthScale: number
+  /** Log-likelihood of the anisotropic optimum minus the isotropic one, both under `method` (0 for a given shape). */
+  logLikelihoodGain: number
+  method: FitMethod
+  /** Likelihood evaluations of the shape search (0 for a given shape). */
+  evaluations: number
+  converged: boolean
 }
 
 export interface FitResult {
@@ -76,6 +108,8 @@ export interface FitResult {
   nugget: number
   lengthScaleBounds: [number, number]
   validCells: number
+  /** Present unless the anisotropy option is 'off'. */
+  anisotropy?: AnisotropyFit
 }
 
 /**
@@ -97,6 +131,15 @@ export const DEFAULT_WHITTLE_TAPER = 0.3
 export const AUTO_DENSE_MAX_CELLS = 700
 /** Longest side for which method 'auto' uses the Kronecker likelihood (two eigendecompositions of this size per evaluation). */
 export const AUTO_KRONECKER_MAX_SIDE = 512
+/**
+ * Largest number of valid cells for which method 'auto' runs the anisotropy search on the dense exact likelihood
+ * (it takes ~100 evaluations, so ~2 s at this size here; Whittle beyond).
+ */
+export const AUTO_ANISOTROPY_DENSE_MAX_CELLS = 300
+/** Default smallest ratio ℓ₂/ℓ₁ of the anisotropy search. */
+export const DEFAULT_MIN_ANISOTROPY_RATIO = 0.1
+/** Half the 0.95 quantile of χ² with two degrees of freedom (5.991464547107979, scipy.stats.chi2.ppf(0.95, 2)): anisotropy test. */
+const HALF_CHI2_2DF_95 = 5.991464547107979 / 2
 /** Points of the initial log-spaced grid in ℓ. */
 const GRID_POINTS = 9
 /** Half the 0.95 quantile of χ² with one degree of freedom (3.841458820694124, scipy.stats.chi2.ppf(0.95, 1)). */
@@ -112,9 +155,12 @@ export function defaultLengthScaleBounds(nx: number, ny: number, factor: number)
   return [0.1 * factor, 0.5 * factor * Math.max(nx, ny, 2)]
 }
 
-/** The likelihood each kernel gets under a requested method (see FitOptions.method). */
-export function chooseMethod(requested: 'auto' | 'exact' | 'whittle', kernel: KernelName, field: CoarseField, estimateNugget = false): FitMethod {
-  const kronecker = kernel === 'se' && field.complete
+/**
+ * The likelihood each kernel gets under a requested method (see FitOptions.method). The Kronecker form needs
+ * the isotropic se kernel; an anisotropic model (`isotropic` false) gets the dense or the Whittle likelihood.
+ */
+export function chooseMethod(requested: 'auto' | 'exact' | 'whittle', kernel: KernelName, field: CoarseField, estimateNugget = false, isotropic = true): FitMethod {
+  const kronecker = kernel === 'se' && field.complete && isotropic
   const m = field.valid.length
   if (requested === 'whittle') return 'whittle'
   if (requested === 'exact') {
@@ -152,19 +198,27 @@ function maximiseNugget(profile: (nugget: number) => ProfiledFit): { fit: Profil
 
 interface Evaluated { x: number; fit: ProfiledFit; nugget: number }
 
-/** Profile log-likelihood as a function of x = ln ℓ for one kernel and method, recording every call. */
-function likelihoodOf(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', whittle: () => WhittleData) {
-  const { nx, ny } = field
+/**
+ * Profile fit (μ, σ² profiled; the nugget fixed or profiled) at length scale ℓ (ℓ₁ with a shape) for one
+ * kernel and method.
+ */
+function fitAt(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', whittle: () => WhittleData, l: number, shape?: Anisotropy): { fit: ProfiledFit; nugget: number } {
+  let profile: (nugget: number) => ProfiledFit
+  if (method === 'kronecker') {
+    if (shape && shape.ratio !== 1) throw new Error('the Kronecker likelihood needs an isotropic kernel')
+    profile = kroneckerProfile(field, factor, l)
+  } else {
+    const table = coarseCorrelationTable(kernel, l, factor, field.nx, field.ny, nu, shape)
+    profile = method === 'exact' ? denseProfile(field, table) : whittleProfile(whittle(), table)
+  }
+  return nugget === 'estimate' ? maximiseNugget(profile) : { fit: profile(nugget), nugget }
+}
+
+/** Profile log-likelihood as a function of x = ln ℓ for one kernel, method and (optional) fixed shape, recording every call. */
+function likelihoodOf(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', whittle: () => WhittleData, shape?: Anisotropy) {
   const history: Evaluated[] = []
   const evaluate = (x: number): ProfiledFit => {
-    const l = Math.exp(x)
-    let profile: (nugget: number) => ProfiledFit
-    if (method === 'kronecker') profile = kroneckerProfile(field, factor, l)
-    else {
-      const table = coarseCorrelationTable(kernel, l, factor, nx, ny, nu)
-      profile = method === 'exact' ? denseProfile(field, table) : whittleProfile(whittle(), table)
-    }
-    const e: Evaluated = nugget === 'estimate' ? { x, ...maximiseNugget(profile) } : { x, fit: profile(nugget), nugget }
+    const e: Evaluated = { x, ...fitAt(field, factor, kernel, nu, method, nugget, whittle, Math.exp(x), shape) }
     history.push(e)
     return e.fit
   }
@@ -177,6 +231,7 @@ interface KernelFit {
   nugget: number | 'estimate'
   best: Evaluated
   history: Evaluated[]
+  shape?: Anisotropy
 }
 
 /** Grid search over ln ℓ, then Brent between the best grid point's neighbours. */
@@ -200,11 +255,11 @@ function bestOf(history: Evaluated[]): Evaluated {
   return best
 }
 
-function fitKernel(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', lo: number, hi: number, whittle: () => WhittleData): KernelFit {
-  const { evaluate, history } = likelihoodOf(field, factor, kernel, nu, method, nugget, whittle)
+function fitKernel(field: CoarseField, factor: number, kernel: KernelName, nu: number | undefined, method: FitMethod, nugget: number | 'estimate', lo: number, hi: number, whittle: () => WhittleData, shape?: Anisotropy): KernelFit {
+  const { evaluate, history } = likelihoodOf(field, factor, kernel, nu, method, nugget, whittle, shape)
   const best = maximise(evaluate, history, lo, hi)
   if (!Number.isFinite(best.fit.logLikelihood)) throw new Error(`likelihood could not be evaluated for kernel ${kernel} anywhere in the search interval (try a larger nugget)`)
-  return { kernel, method, nugget, best, history }
+  return { kernel, method, nugget, best, history, ...(shape ? { shape } : {}) }
 }
 
 /**
@@ -248,11 +303,18 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
   const bounds = opts.lengthScaleBounds ?? defaultLengthScaleBounds(nx, ny, factor)
   if (!(bounds[0] > 0 && bounds[1] > bounds[0] && Number.isFinite(bounds[1]))) throw new Error(`length-scale bounds must satisfy 0 < lower < upper, got [${bounds[0]}, ${bounds[1]}]`)
   const lo = Math.log(bounds[0]), hi = Math.log(bounds[1])
+  const anisotropyOption = opts.anisotropy ?? 'off'
+  if (typeof anisotropyOption === 'object') checkAnisotropy(anisotropyOption)
+  else if (anisotropyOption !== 'off' && anisotropyOption !== 'fit') throw new Error(`unknown anisotropy option "${anisotropyOption}" (use off, fit or { ratio, angle })`)
+  const minRatio = opts.minAnisotropyRatio ?? DEFAULT_MIN_ANISOTROPY_RATIO
+  if (!(minRatio > 0 && minRatio < 1)) throw new Error(`smallest anisotropy ratio must be in (0, 1), got ${minRatio}`)
+  const givenShape = typeof anisotropyOption === 'object' ? anisotropyOption : undefined
+  const isotropicModel = !givenShape || givenShape.ratio === 1
 
   let whittleData: WhittleData | undefined
   const whittle = () => (whittleData ??= prepareWhittle(field, opts.whittleTaper ?? DEFAULT_WHITTLE_TAPER))
-  const fitWith = (kernel: KernelName, method: FitMethod) => fitKernel(field, factor, kernel, nu, method, nuggetFor(opts.nugget, kernel), lo, hi, whittle)
-  const methodFor = (kernel: KernelName) => chooseMethod(requested, kernel, field, nuggetFor(opts.nugget, kernel) === 'estimate')
+  const fitWith = (kernel: KernelName, method: FitMethod) => fitKernel(field, factor, kernel, nu, method, nuggetFor(opts.nugget, kernel), lo, hi, whittle, givenShape)
+  const methodFor = (kernel: KernelName) => chooseMethod(requested, kernel, field, nuggetFor(opts.nugget, kernel) === 'estimate', isotropicModel)
 
   let chosen: KernelFit
   let candidates: FitResult['candidates']
@@ -279,8 +341,22 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
     searched = chosen.history.length
   }
 
+  let anisotropy: AnisotropyFit | undefined
+  if (anisotropyOption === 'fit') {
+    const shaped = fitShape(field, factor, chosen, nu, requested, lo, hi, bounds, minRatio, whittle)
+    anisotropy = shaped.anisotropy
+    searched += shaped.evaluations
+    chosen = shaped.chosen
+  } else if (givenShape) {
+    const major = Math.exp(chosen.best.x)
+    anisotropy = {
+      source: 'given', adopted: true, ratio: givenShape.ratio, angle: givenShape.angle, angleDegrees: degrees(givenShape.angle),
+      majorLengthScale: major, minorLengthScale: givenShape.ratio * major, logLikelihoodGain: 0, method: chosen.method, evaluations: 0, converged: true,
+    }
+  }
+
   // Interval and curvature reuse the chosen kernel's evaluations.
-  const { evaluate, history } = likelihoodOf(field, factor, chosen.kernel, nu, chosen.method, chosen.nugget, whittle)
+  const { evaluate, history } = likelihoodOf(field, factor, chosen.kernel, nu, chosen.method, chosen.nugget, whittle, chosen.shape)
   history.push(...chosen.history)
   const best = chosen.best
   const left = intervalEnd(evaluate, history, best, -1, lo)
@@ -319,5 +395,64 @@ export function fitCoarseField(coarse: ArrayLike<number>, nx: number, ny: number
     nugget: best.nugget * factor * factor * variance,
     lengthScaleBounds: [bounds[0], bounds[1]],
     validCells: field.valid.length,
+    ...(anisotropy ? { anisotropy } : {}),
+  }
+}
+
+/** θ in degrees, in [0, 180). */
+function degrees(angle: number): number {
+  const d = (angle * 180) / Math.PI
+  return ((d % 180) + 180) % 180
+}
+
+/**
+ * Option 'fit': the isotropic optimum under a likelihood valid for rotated kernels (re-fitted near ℓ̂ when the
+ * isotropic fit used Kronecker), the shape search from there, and — when the likelihood-ratio test rejects
+ * isotropy — the full fit of ℓ₁ at the fitted shape, which then becomes the reported model.
+ */
+function fitShape(
+  field: CoarseField, factor: number, isotropic: KernelFit, nu: number | undefined, requested: 'auto' | 'exact' | 'whittle',
+  lo: number, hi: number, bounds: [number, number], minRatio: number, whittle: () => WhittleData,
+): { anisotropy: AnisotropyFit; chosen: KernelFit; evaluations: number } {
+  const { kernel, nugget } = isotropic
+  const method: FitMethod = requested === 'auto' && field.valid.length > AUTO_ANISOTROPY_DENSE_MAX_CELLS
+    ? 'whittle' : chooseMethod(requested, kernel, field, nugget === 'estimate', false)
+  let evaluations = 0
+  let iso = isotropic
+  if (method !== isotropic.method) {
+    iso = fitKernel(field, factor, kernel, nu, method, nugget, Math.max(lo, isotropic.best.x - 0.5), Math.min(hi, isotropic.best.x + 0.5), whittle)
+    evaluations += iso.history.length
+  }
+  const search = searchAnisotropy({
+    logLikelihood: (l, shape) => fitAt(field, factor, kernel, nu, method, nugget, whittle, l, shape).fit.logLikelihood,
+    isotropicLengthScale: Math.exp(iso.best.x), start: structureTensorAnisotropy(field), bounds, minRatio,
+  })
+  evaluations += search.evaluations
+  const gain = search.logLikelihood - iso.best.fit.logLikelihood
+  const adopted = gain > HALF_CHI2_2DF_95
+  let chosen = isotropic
+  let major = search.lengthScale
+  if (adopted) {
+    chosen = fitKernel(field, factor, kernel, nu, method, nugget, lo, hi, whittle, search.anisotropy)
+    evaluations += chosen.history.length
+    major = Math.exp(chosen.best.x)
+  }
+  const { ratio, angle } = search.anisotropy
+  return {
+    anisotropy: {
+      source: 'fitted', adopted, ratio, angle, angleDegrees: degrees(angle), majorLengthScale: major, minorLengthScale: ratio * major,
+      logLikelihoodGain: gain, method, evaluations: search.evaluations, converged: search.converged,
+    },
+    chosen, evaluations,
+  }
+}
+
+/** The kernel a fit describes, for the downscaler (grf/downscaler.ts): anisotropy included when adopted. */
+export function kernelParamsOf(fit: FitResult): KernelParams {
+  const a = fit.anisotropy
+  return {
+    kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nugget: fit.nugget,
+    ...(fit.nu !== undefined ? { nu: fit.nu } : {}),
+    ...(a?.adopted && a.ratio !== 1 ? { anisotropy: { ratio: a.ratio, angle: a.angle } } : {}),
   }
 }

@@ -52,6 +52,70 @@ export function coarseCovarianceTable(cov: (dx: number, dy: number) => number, b
   return table
 }
 
+/** Elliptical support {h : a·hx² + 2c·hx·hy + d·hy² ≤ radius²} outside which a kernel is taken as exactly 0. */
+export interface EllipticSupport {
+  /** [a, c, d], positive definite (see kernels.ts anisotropyMetric). */
+  metric: [number, number, number]
+  radius: number
+}
+
+/**
+ * The same table as `coarseCovarianceTable` for a covariance with point symmetry cov(−h) = cov(h) (every
+ * stationary covariance, anisotropic ones included): only coarse lags Δy ≥ 0 are summed and the rest
+ * mirrored, c_B(−Δ) = c_B(Δ), which halves the kernel calls; with `support`, fine lags outside the
+ * ellipse are skipped (taken as 0), row by row in closed form.
+ */
+export function pointSymmetricCoarseCovarianceTable(
+  cov: (dx: number, dy: number) => number, b: number, mx: number, my: number, support?: EllipticSupport,
+): Float64Array {
+  checkFactor(b, mx, my)
+  const w = blockLagWeights(b)
+  const wx = 2 * mx - 1
+  const table = new Float64Array(wx * (2 * my - 1))
+  const hxMax = b * mx - 1, hyMax = b * my - 1
+  const row = new Float64Array(2 * hxMax + 1) // k(hx, hy) at index hx + hxMax, zero outside [lo, hi]
+  const rowConv = new Float64Array(wx)
+  const [a, c, d] = support?.metric ?? [1, 0, 1]
+  const r2 = support ? support.radius * support.radius : Infinity
+  const det = a * d - c * c
+  // Rows of the ellipse: a·hx² + 2c·hy·hx + d·hy² ≤ R² has a solution iff hy² ≤ R²·a/det.
+  const hyTop = support ? Math.min(hyMax, Math.floor(Math.sqrt(r2 * a / det))) : hyMax
+  let lastLo = 0, lastHi = -1
+  for (let hy = -(b - 1); hy <= hyTop; hy++) {
+    let lo = -hxMax, hi = hxMax
+    if (support) {
+      const disc = r2 * a - hy * hy * det
+      if (disc < 0) continue
+      const root = Math.sqrt(disc)
+      lo = Math.max(-hxMax, Math.ceil((-c * hy - root) / a))
+      hi = Math.min(hxMax, Math.floor((-c * hy + root) / a))
+      if (lo > hi) continue
+    }
+    if (lastHi >= lastLo) row.fill(0, lastLo + hxMax, lastHi + hxMax + 1)
+    for (let hx = lo; hx <= hi; hx++) row[hx + hxMax] = cov(hx, hy)
+    lastLo = lo; lastHi = hi
+    // Coarse lags whose triangle [bΔx − (b−1), bΔx + (b−1)] meets [lo, hi].
+    const dxLo = Math.max(-(mx - 1), Math.ceil((lo - b + 1) / b)), dxHi = Math.min(mx - 1, Math.floor((hi + b - 1) / b))
+    for (let Dx = dxLo; Dx <= dxHi; Dx++) {
+      let s = 0
+      const base = b * Dx + hxMax
+      for (let e = -(b - 1); e <= b - 1; e++) s += w[e + b - 1]! * row[base + e]!
+      rowConv[Dx + mx - 1] = s
+    }
+    for (let Dy = Math.max(0, Math.ceil((hy - b + 1) / b)); Dy <= Math.min(my - 1, Math.floor((hy + b - 1) / b)); Dy++) {
+      const wy = w[hy - b * Dy + b - 1]!
+      const off = (Dy + my - 1) * wx
+      for (let k = dxLo + mx - 1; k <= dxHi + mx - 1; k++) table[off + k]! += wy * rowConv[k]!
+    }
+  }
+  // c_B(−Δx, −Δy) = c_B(Δx, Δy): rows Δy < 0 are the rows Δy > 0 reversed.
+  for (let Dy = 1; Dy <= my - 1; Dy++) {
+    const src = (Dy + my - 1) * wx, dst = (-Dy + my - 1) * wx
+    for (let k = 0; k < wx; k++) table[dst + k] = table[src + wx - 1 - k]!
+  }
+  return table
+}
+
 /**
  * Same table for an isotropic correlation/covariance `radial(r)` (r in fine cells), using the symmetry
  * k(±hx, ±hy) = k(|hx|, |hy|): one quadrant of fine lags (m·b² calls) and one quadrant of coarse lags, mirrored.

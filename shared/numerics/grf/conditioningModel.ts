@@ -11,7 +11,7 @@
  * so block means are still reproduced to rounding. τ is reported in the diagnostics. For the
  * squared-exponential with ℓ of a few coarse cells this is typically 1e-8…1e-6 of σ².
  */
-import { covarianceFunction, decayRadius, type KernelParams } from './kernels'
+import { axisAlignedLengthScales, checkAnisotropy, covarianceFunction, decayRadius, type KernelParams } from './kernels'
 import './maternGeneral' // installs the general-ν Matérn used by kernel 'matern'
 import { embedCovariance, embedSeparableCovariance, type CirculantEmbedding, type EmbeddingOptions } from './circulantEmbedding'
 import { coarseSymbol1d, TorusBlockOperator } from './torusBlockOperator'
@@ -29,7 +29,7 @@ export interface ConditioningOptions {
   embedding?: EmbeddingOptions
   /** Largest accepted bound on cond(C) before a numerical nugget is added (default 1e10). */
   maxCondition?: number
-  /** Coarse solver: 'auto' (Kronecker for se on a complete grid, dense up to `denseLimit` cells, else PCG). */
+  /** Coarse solver: 'auto' (Kronecker for axis-aligned se on a complete grid, dense up to `denseLimit` cells, else PCG). */
   solver?: 'auto' | 'kronecker' | 'dense' | 'pcg'
   /** Observed-cell count up to which 'auto' uses the dense Cholesky (default 600). */
   denseLimit?: number
@@ -86,6 +86,7 @@ function validate(spec: ConditioningSpec): void {
   if (!(kernel.lengthScale > 0) || !Number.isFinite(kernel.lengthScale)) throw new Error(`length scale must be a positive number of fine cells, got ${kernel.lengthScale}`)
   if (!(kernel.variance > 0) || !Number.isFinite(kernel.variance)) throw new Error(`variance must be positive, got ${kernel.variance}`)
   if (kernel.nugget !== undefined && !(kernel.nugget >= 0)) throw new Error(`nugget must be ≥ 0, got ${kernel.nugget}`)
+  checkAnisotropy(kernel.anisotropy)
   let observed = 0
   for (const v of coarse) {
     if (Number.isFinite(v)) observed++
@@ -117,12 +118,12 @@ export function buildConditioningModel(spec: ConditioningSpec): ConditioningMode
   const kernelNugget = spec.kernel.nugget ?? 0
   const radius = decayRadius(kernel, options.decayTolerance ?? 1e-12)
 
-  const separableKernel = kernel.kernel === 'se'
+  // se is separable when its axes are the grid's (isotropic or unrotated); a rotated kernel takes the general path.
+  const axes = kernel.kernel === 'se' ? axisAlignedLengthScales(kernel) : undefined
   let embedding: CirculantEmbedding
-  if (separableKernel) {
-    const l2 = 2 * kernel.lengthScale ** 2
-    const g = (h: number) => Math.exp(-(h * h) / l2)
-    embedding = embedSeparableCovariance(kernel.variance, g, g, fineNx, fineNy, b, radius, options.embedding)
+  if (axes) {
+    const gx = axisGaussian(axes[0]), gy = axes[1] === axes[0] ? gx : axisGaussian(axes[1])
+    embedding = embedSeparableCovariance(kernel.variance, gx, gy, fineNx, fineNy, b, radius, options.embedding)
   } else {
     embedding = embedCovariance(covarianceFunction(kernel), fineNx, fineNy, b, radius, options.embedding)
   }
@@ -169,6 +170,12 @@ export function buildConditioningModel(spec: ConditioningSpec): ConditioningMode
     priorFine: prior.fine, priorCoarse: prior.coarse, baseResidual, separable,
     pointVariance: kernel.variance + kernelNugget + addedNugget,
   }
+}
+
+/** One axis factor exp(−h²/(2ℓ²)) of the separable squared-exponential. */
+function axisGaussian(lengthScale: number): (h: number) => number {
+  const l2 = 2 * lengthScale ** 2
+  return (h) => Math.exp(-(h * h) / l2)
 }
 
 function chooseSolver(
