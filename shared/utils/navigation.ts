@@ -20,6 +20,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/method-check', label: 'Method check', description: 'Score the downscaling against truth and simple interpolation.', roles: ['admin', 'duty_lead', 'forecaster'] },
   { to: '/portal', label: 'My briefings', description: 'Briefings sent to your organisation.', roles: ['stakeholder'] },
   { to: '/admin/people', label: 'People', description: 'Accounts, roles and invitations.', roles: ['admin'] },
+  { to: '/admin/stakeholders', label: 'Stakeholders', description: 'Organisations, contacts and distribution lists.', roles: ['admin', 'duty_lead'] },
+  { to: '/admin/mail', label: 'Mail log', description: 'Messages sent and what the local mail stand-in received.', roles: ['admin', 'duty_lead'] },
   { to: '/admin/audit', label: 'Audit log', description: 'Every change, who made it and when.', roles: ['admin', 'duty_lead'] },
 ]
 
