@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto'
 import { useBoss, stopBoss, DOWNSCALE_QUEUE, enqueueTasks, type DownscaleJob } from '../server/utils/jobs'
 import { closeDB } from '../server/utils/db'
 import { ThreadPool } from './threadPool'
-import { heartbeat, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS, unclaimedPendingTasks } from './taskStore'
+import { heartbeat, releaseAbandonedTasks, releaseOwnedTasks, STALE_AFTER_SECONDS, unclaimedPendingTasks, closeFinishedRuns } from './taskStore'
 import { createTaskRunner } from './runTask'
 import { startMailSender } from './mail'
 // Method checks: their own queue, one check at a time per process, on a dedicated thread.
@@ -34,6 +34,7 @@ const sweep = setInterval(async () => {
     for (const t of released) await enqueueTasks([t.id], t.attempts)
     if (released.length) log(`re-queued ${released.length} abandoned task(s)`)
     for (const t of await unclaimedPendingTasks()) await enqueueTasks([t.id], t.attempts)
+    await closeFinishedRuns()
   } catch (e) { log(`sweep failed: ${(e as Error).message}`) }
 }, Math.min(10, STALE_AFTER_SECONDS / 2) * 1000)
 const methodChecks = await startMethodCheckWorker({ workerId, log })

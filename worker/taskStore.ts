@@ -60,6 +60,9 @@ export async function failTask(taskId: number, workerId: string, message: string
 
 /** Marks the run completed (or failed) once no task is pending or running. */
 async function finishRunIfDone(tx: Parameters<Parameters<ReturnType<typeof useDB>['transaction']>[0]>[0], runId: number) {
+  // Serialise the check on the run row: without the lock, two last tasks finishing together
+  // each see the other still running and neither closes the run.
+  await tx.execute(sql`select 1 from runs where id = ${runId} for update`)
   await tx.execute(sql`
     update runs set
       status = case when exists (select 1 from run_tasks where run_id = ${runId} and status = 'failed') then 'failed'::run_status else 'completed'::run_status end,
@@ -113,4 +116,16 @@ export async function unclaimedPendingTasks(): Promise<{ id: number; attempts: n
       and coalesce(t.heartbeat_at, r.updated_at) < now() - make_interval(secs => ${STALE_AFTER_SECONDS * 4})
     limit 500`)
   return (rows.rows as { id: number; attempts: number }[])
+}
+
+/** Closes runs whose tasks are all finished but whose status was left open (self-repair). */
+export async function closeFinishedRuns(): Promise<number> {
+  const res = await useDB().execute(sql`
+    update runs r set
+      status = case when exists (select 1 from run_tasks where run_id = r.id and status = 'failed') then 'failed'::run_status else 'completed'::run_status end,
+      finished_at = now()
+    where r.status in ('queued', 'running')
+      and exists (select 1 from run_tasks where run_id = r.id)
+      and not exists (select 1 from run_tasks where run_id = r.id and status in ('pending', 'running'))`)
+  return res.rowCount ?? 0
 }

@@ -10,6 +10,7 @@ import { createRunTasks, insertParsedRun } from '../../server/utils/runRecords'
 import { synthesiseDemoEnsembles, type DemoEnsemble } from '../../shared/demo/synthesise'
 import { ThreadPool } from '../../worker/threadPool'
 import { createTaskRunner } from '../../worker/runTask'
+import { closeFinishedRuns } from '../../worker/taskStore'
 import type { DownscaleSettings } from '../../server/db/schema/runs'
 
 const TITLES: Record<DemoEnsemble['variable'], string> = {
@@ -70,6 +71,7 @@ export async function seedDemoRuns(opts: DemoRunOptions, log: (m: string) => voi
   }
   await Promise.all(Array.from({ length: Math.max(1, availableParallelism()) }, next))
   await pool.close()
+  await closeFinishedRuns()
   const seconds = (Date.now() - started) / 1000
   log(`demo runs seeded and downscaled in ${seconds.toFixed(1)} s`)
   return seconds
