@@ -1,12 +1,32 @@
 /**
  * One ensemble member at one lead time: fit the prior on the coarse field alone (maximum
  * likelihood), then draw conditional fine-scale samples (conditioning by kriging) and pack them.
+ * Optional extensions: a latent transform for non-Gaussian variables (fit and conditioning in the
+ * latent space, physical block means restored after the back-transform: transform/), and noise that
+ * is autoregressive across lead times (coherence/), each task still computed on its own.
  * Pure: used by the job worker's threads, the demo seeding and the command line alike.
  */
+import { coherentWhiteNoise } from '../coherence/coherentNoise'
+import { leadCorrelation } from '../coherence/leadNoiseWeights'
 import { defaultLengthScaleBounds, fitCoarseField, type FitResult } from '../fit/fitCoarse'
-import { createDownscaler } from '../grf/downscaler'
+import { createDownscaler, type Downscaler } from '../grf/downscaler'
 import type { KernelName } from '../grf/kernels'
 import { packInt16, type PackedInt16 } from '../io/packInt16'
+import { prepareLatentCoarse, type TransformSummary } from '../transform/latentCoarse'
+import type { TransformOption } from '../transform/latentTransform'
+import { restorePhysicalBlockMeans, type PhysicalMeanOptions, type PhysicalMeanReport } from '../transform/physicalBlockMeans'
+
+/** Time-coherent samples: sample k of this member at this lead shares AR(1) noise with sample k at the other leads. */
+export interface TimeCoherenceInput {
+  /** This task's lead index into leadHours. */
+  leadIndex: number
+  /** Lead times (hours since the reference time) of the run, at least up to leadIndex; strictly increasing. */
+  leadHours: number[]
+  /** Decorrelation time τ (hours): ρ = exp(−Δt/τ) between leads Δt apart. */
+  timeScaleHours: number
+  /** The same for every lead of one member (memberNoiseSeed), different between members. */
+  noiseSeed: number
+}
 
 export interface DownscaleMemberInput {
   /** Coarse field, row-major ny×nx, NaN = missing. */
@@ -26,12 +46,30 @@ export interface DownscaleMemberInput {
    * fit reaches the bound is flagged (atBound = 'upper').
    */
   maxLengthScaleCoarseCells?: number
+  /** CF standard name of the variable: picks the 'auto' transform. */
+  standardName?: string
+  /**
+   * Latent transform: 'auto' (default) = Box–Cox for gusts and wind speed, censored latent Gaussian
+   * for precipitation, none otherwise and whenever standardName is absent.
+   */
+  transform?: TransformOption
+  /** Fixes λ of the boxcox or censored transform instead of fitting it on the coarse field. */
+  transformLambda?: number
+  /** Physical block-mean restoration after a back-transform (see transform/physicalBlockMeans.ts). */
+  physicalMeans?: PhysicalMeanOptions
+  /** Time-coherent noise across lead times; absent = independent samples per lead (seeded by `seed`). */
+  timeCoherence?: TimeCoherenceInput
 }
 
 /** Default cap on the fitted length scale, in coarse cells (see DownscaleMemberInput). */
 export const DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS = 5
 
 export interface MemberFit extends Omit<FitResult, 'profile'> {
+  /**
+   * The latent transform (name 'none' when the field was downscaled as it is). When it is not 'none',
+   * ℓ, variance and mean describe the latent Gaussian field, not the physical values.
+   */
+  transform: TransformSummary
   /** ℓ in km on the fine grid. */
   lengthScaleKm: number
   lengthScaleIntervalKm: [number, number]
@@ -56,20 +94,47 @@ export function taskSeed(runSeed: number, leadIndex: number, memberIndex: number
   return (h ^ (h >>> 16)) >>> 0
 }
 
+/** The noise seed of one member, shared by all its lead times (time-coherent runs). */
+export function memberNoiseSeed(runSeed: number, memberIndex: number): number {
+  return taskSeed(runSeed ^ 0x5bd1e995, -1, memberIndex)
+}
+
 export function downscaleMember(input: DownscaleMemberInput): DownscaleMemberOutput {
+  const { samples, ...rest } = sampleMember(input)
+  return { ...rest, packed: packInt16(samples) }
+}
+
+/** What downscaleMember computes, before packing: the samples as Float64Array fine fields (row-major). */
+export type MemberSamples = Omit<DownscaleMemberOutput, 'packed'> & { samples: Float64Array[] }
+
+/** downscaleMember without the packing (for checks that need the full-precision samples). */
+export function sampleMember(input: DownscaleMemberInput): MemberSamples {
   const { nx, ny, factor } = input
-  const coarse = Float64Array.from(input.coarse)
+  const latent = prepareLatentCoarse(input.coarse, input.transform ?? 'auto', input.standardName, input.transformLambda)
+  const coarse = latent.physical
+  const fineNx = nx * factor, fineNy = ny * factor
+  if (latent.allDry) return allDryOutput(input, latent.summary)
   const [lower, upper] = defaultLengthScaleBounds(nx, ny, factor)
   const cap = (input.maxLengthScaleCoarseCells ?? DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS) * factor
-  const fit = fitCoarseField(coarse, nx, ny, { factor, kernel: input.kernel, lengthScaleBounds: [lower, Math.max(lower * 2, Math.min(upper, cap))] })
+  const fit = fitCoarseField(latent.fitField, nx, ny, { factor, kernel: input.kernel, lengthScaleBounds: [lower, Math.max(lower * 2, Math.min(upper, cap))] })
   const kmPerFine = input.spacingKm / factor
   const downscaler = createDownscaler({
-    coarse, nx, ny, factor,
-    kernel: { kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nu: fit.nu, nugget: fit.nugget },
+    coarse: latent.targets, nx, ny, factor,
+    // The fit's nugget (estimated for se) describes noise in the coarse values; as fine-scale white
+    // noise it would turn every sample into static (its fine variance is η·b²·σ², often above σ²).
+    // Samples use the smooth part; the engine adds only the numerical nugget it needs to solve C,
+    // and block means are still reproduced exactly.
+    kernel: { kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nu: fit.nu },
     mean: fit.mean,
   })
-  const samples = downscaler.samples(input.samples, input.seed)
-  const fineNx = nx * factor, fineNy = ny * factor
+  const { samples: latentSamples, coherence } = drawSamples(downscaler, input)
+  let samples = latentSamples, physicalMeans: PhysicalMeanReport | undefined
+  if (latent.transform.name !== 'none') {
+    const restored = restorePhysicalBlockMeans(latentSamples, coarse, { nx, ny, factor }, latent.transform,
+      (fields, changes) => downscaler.recondition(fields, changes), { maxStep: 2 * Math.sqrt(fit.variance), ...input.physicalMeans })
+    samples = restored.samples
+    physicalMeans = restored.report
+  }
   let blockMeanError = 0
   for (const s of samples) {
     for (let J = 0; J < ny; J++) for (let I = 0; I < nx; I++) {
@@ -84,12 +149,51 @@ export function downscaleMember(input: DownscaleMemberInput): DownscaleMemberOut
   return {
     fit: {
       ...rest,
+      transform: latent.summary,
       lengthScaleKm: fit.lengthScale * kmPerFine,
       lengthScaleIntervalKm: [fit.lengthScaleInterval[0] * kmPerFine, fit.lengthScaleInterval[1] * kmPerFine],
       profile: profile.map((p) => ({ lengthScaleKm: p.lengthScale * kmPerFine, logLikelihood: p.logLikelihood })),
     },
-    packed: packInt16(samples),
-    fineNx, fineNy, blockMeanError,
-    diagnostics: { ...(downscaler.diagnostics as unknown as Record<string, unknown>) },
+    samples, fineNx, fineNy, blockMeanError,
+    diagnostics: {
+      ...(downscaler.diagnostics as unknown as Record<string, unknown>),
+      ...(physicalMeans ? { physicalMeans } : {}),
+      ...(coherence ? { timeCoherence: coherence } : {}),
+    },
+  }
+}
+
+/** Latent samples: seeded per lead, or from time-coherent noise. */
+function drawSamples(downscaler: Downscaler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number> } {
+  const tc = input.timeCoherence
+  if (!tc) return { samples: downscaler.samples(input.samples, input.seed) }
+  const noise = coherentWhiteNoise(tc)
+  const t = tc.leadIndex
+  return {
+    samples: downscaler.samplesFromNoise(input.samples, noise),
+    coherence: {
+      leadIndex: t, timeScaleHours: tc.timeScaleHours,
+      correlationWithPreviousLead: t > 0 ? leadCorrelation(tc.leadHours[t]!, tc.leadHours[t - 1]!, tc.timeScaleHours) : NaN,
+      innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped,
+    },
+  }
+}
+
+/** Every valid block dry (censored model): the samples are exactly zero, there is nothing to fit. */
+function allDryOutput(input: DownscaleMemberInput, transform: TransformSummary): MemberSamples {
+  const fineNx = input.nx * input.factor, fineNy = input.ny * input.factor
+  const zeros = Array.from({ length: input.samples }, () => new Float64Array(fineNx * fineNy))
+  let validCells = 0
+  for (let k = 0; k < input.coarse.length; k++) if (Number.isFinite(input.coarse[k]!)) validCells++
+  return {
+    fit: {
+      kernel: input.kernel === 'auto' ? 'matern32' : input.kernel, lengthScale: 0, variance: 0, mean: 0, logLikelihood: 0,
+      lengthScaleInterval: [0, 0], standardError: NaN, atBound: null, method: 'exact', evaluations: 0, totalEvaluations: 0,
+      nuggetRatio: 0, nuggetEstimated: false, nugget: 0, lengthScaleBounds: [0, 0], validCells,
+      transform: { ...transform, note: 'every block is dry: samples are zero, no covariance fitted' },
+      lengthScaleKm: 0, lengthScaleIntervalKm: [0, 0], profile: [],
+    },
+    samples: zeros, fineNx, fineNy, blockMeanError: 0,
+    diagnostics: { allDry: true },
   }
 }
