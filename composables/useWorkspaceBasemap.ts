@@ -17,7 +17,7 @@ let basemap: Promise<Basemap> | null = null
 
 /** Land polygons and borders between countries, loaded once (about 1.3 MB from the app's own assets). */
 export function loadBasemap(): Promise<Basemap> {
-  basemap ??= (async () => {
+  basemap ??= (async (): Promise<Basemap> => {
     const [topojson, landUrl, countriesUrl] = await Promise.all([
       import('topojson-client') as unknown as Promise<TopojsonApi>,
       import('world-atlas/land-50m.json?url').then((m) => m.default as string),
@@ -31,11 +31,11 @@ export function loadBasemap(): Promise<Basemap> {
     const land = topojson.feature(landTopo, landTopo!.objects.land)
     const borders = topojson.mesh(countriesTopo, countriesTopo!.objects.countries, (a, b) => a !== b)
     return {
-      land: land.type === 'FeatureCollection' ? land : { type: 'FeatureCollection', features: [land] },
+      land: land.type === 'FeatureCollection' ? land : { type: 'FeatureCollection' as const, features: [land] },
       borders: { type: 'Feature', properties: {}, geometry: borders },
     }
   })().catch((error: unknown) => { basemap = null; throw error })
-  return basemap
+  return basemap!
 }
 
 /** The invented demo region as GeoJSON: coastline polygon, ridge crest line and places. */

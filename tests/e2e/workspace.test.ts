@@ -55,7 +55,7 @@ describe('map workspace', () => {
     await page.getByText('Probability that gusts reach 13.55 m/s or more', { exact: false }).first().waitFor({ timeout: 30_000 })
     await page.getByTestId('product-probability').check()
     await page.getByText('Probability that gusts reach 13.55 m/s or more, per 5.5 km cell', { exact: false }).first().waitFor({ timeout: 30_000 })
-    await page.waitForFunction(() => document.querySelector('[data-testid=map-image-ready]')?.textContent?.includes('threshold=13.55'), undefined, { timeout: 30_000 })
+    await page.waitForFunction("document.querySelector('[data-testid=map-image-ready]')?.textContent?.includes('threshold=13.55')", undefined, { timeout: 30_000 })
 
     // Draw a rectangle with the mouse: click a corner, move, click the opposite corner.
     await page.getByTestId('draw-rectangle').click()

@@ -74,7 +74,7 @@ describe('products of a run', () => {
     expect(decodeURIComponent(headers.get('x-tessera-legend')!)).toBe(s.legend.title)
     expect(JSON.parse(headers.get('x-tessera-corners')!)).toEqual(s.image.corners)
     expect([image!.width, image!.height]).toEqual([s.image.width, s.image.height])
-    const [[west, north], [east], , [, south]] = s.image.corners as [number, number][]
+    const [[west, north], [east], , [, south]] = s.image.corners as [[number, number], [number, number], [number, number], [number, number]]
     const yOf = (lat: number) => Math.log(Math.tan(Math.PI / 4 + (lat * Math.PI) / 360))
     const samples = samplesAt(0)
     let checked = 0

@@ -18,7 +18,7 @@ export default defineEventHandler(async (event) => {
   for (let k = 0; k < classOfCell.length; k++) {
     const c = classOfCell[k]!
     if (c < 0) { missingCells++; continue }
-    classCounts[c]++
+    classCounts[c] = classCounts[c]! + 1
     if (values[k]! > max) max = values[k]!
   }
   const computeMs = performance.now() - started - loadedMs
