@@ -1,0 +1,123 @@
+/**
+ * Turns a physical coarse field into what the latent Gaussian engine needs: the transform (λ fitted
+ * on the coarse values by maximum likelihood), the latent field to fit the covariance on, and the
+ * latent block targets to condition on. Physical block means are restored after sampling
+ * (physicalBlockMeans.ts); the latent targets here are the first guess h⁻¹(y).
+ *
+ * Censored model (precipitation): a dry block (y = 0) has no latent value, only the bound "every cell
+ * ≤ 0". Its target is the fitted latent marginal's mean below the bound, E[g | g ≤ 0] = μ − σ φ(α)/Φ(α),
+ * α = −μ/σ, and the covariance is fitted on the wet blocks alone when there are enough of them (a
+ * plateau of imputed values would read as spurious long-range structure). Negative inputs (model
+ * round-off) are treated as dry and counted.
+ */
+import { MIN_VALID_CELLS } from '../fit/coarseField'
+import { fitBoxCox } from './boxCox'
+import { DEFAULT_CENSORED_LAMBDA, fitCensoredPower } from './censoredPower'
+import { latentTransform, resolveTransform, type LatentTransform, type TransformName, type TransformOption } from './latentTransform'
+import { inverseMillsRatio } from './logNormalCdf'
+
+export interface TransformSummary {
+  name: TransformName
+  requested: TransformOption
+  /** λ used (0 = log, 1 = none). */
+  lambda: number
+  lambdaFitted: boolean
+  lambdaStandardError?: number
+  lambdaAtBound?: 'lower' | 'upper' | null
+  note?: string
+  /** Censored model: coarse blocks with y = 0 and y > 0, inputs below 0 set to 0, the dry blocks' latent target. */
+  dryBlocks?: number
+  wetBlocks?: number
+  negativeInputs?: number
+  dryTarget?: number
+  /** Censored model: the fitted latent marginal of the coarse values and its dry probability Φ(−μ/σ). */
+  latentMean?: number
+  latentSd?: number
+  coarseDryProbability?: number
+  /** Censored model: the covariance was fitted on wet blocks only (true) or on all blocks with dry targets. */
+  fitOnWetOnly?: boolean
+}
+
+export interface LatentCoarse {
+  transform: LatentTransform
+  /** Physical block-mean constraints, row-major nx×ny, NaN = missing (censored: negatives set to 0). */
+  physical: Float64Array
+  /** Latent targets to condition on (NaN = missing). */
+  targets: Float64Array
+  /** Latent field for the covariance fit (NaN = left out). */
+  fitField: Float64Array
+  /** True when every valid block is dry (censored): the samples are all zero, nothing to fit. */
+  allDry: boolean
+  summary: TransformSummary
+}
+
+/**
+ * Prepares the latent coarse field for `option` ('auto' decides from the CF standard name).
+ * `lambda` fixes λ of boxcox / censored instead of fitting it.
+ */
+export function prepareLatentCoarse(coarse: ArrayLike<number>, option: TransformOption, standardName?: string, lambda?: number): LatentCoarse {
+  const physical = Float64Array.from(coarse)
+  const resolved = resolveTransform(option, standardName, physical)
+  const name = resolved.name
+  const valid: number[] = []
+  for (let k = 0; k < physical.length; k++) if (Number.isFinite(physical[k]!)) valid.push(k)
+  const base = { name, requested: option, ...(resolved.note ? { note: resolved.note } : {}) }
+
+  if (name === 'none' || name === 'log') {
+    const t = latentTransform(name)
+    const latent = physical.map((v) => (Number.isFinite(v) ? t.toLatent(v) : NaN))
+    return { transform: t, physical, targets: latent, fitField: latent, allDry: false, summary: { ...base, lambda: t.lambda, lambdaFitted: false } }
+  }
+  if (name === 'boxcox') {
+    if (lambda !== undefined) {
+      const t = latentTransform('boxcox', lambda)
+      const latent = physical.map((v) => (Number.isFinite(v) ? t.toLatent(v) : NaN))
+      return { transform: t, physical, targets: latent, fitField: latent, allDry: false, summary: { ...base, lambda, lambdaFitted: false } }
+    }
+    const fit = fitBoxCox(valid.map((k) => physical[k]!))
+    const t = latentTransform('boxcox', fit.lambda)
+    const latent = physical.map((v) => (Number.isFinite(v) ? t.toLatent(v) : NaN))
+    return {
+      transform: t, physical, targets: latent, fitField: latent, allDry: false,
+      summary: { ...base, lambda: fit.lambda, lambdaFitted: true, lambdaStandardError: fit.standardError, lambdaAtBound: fit.atBound },
+    }
+  }
+  return prepareCensored(physical, valid, base, lambda)
+}
+
+function prepareCensored(physical: Float64Array, valid: number[], base: Pick<TransformSummary, 'name' | 'requested' | 'note'>, fixedLambda?: number): LatentCoarse {
+  let negativeInputs = 0, wetBlocks = 0
+  for (const k of valid) {
+    if (physical[k]! < 0) { physical[k] = 0; negativeInputs++ }
+    if (physical[k]! > 0) wetBlocks++
+  }
+  const dryBlocks = valid.length - wetBlocks
+  const counts = { dryBlocks, wetBlocks, negativeInputs }
+  if (wetBlocks === 0) {
+    const t = latentTransform('censored', DEFAULT_CENSORED_LAMBDA)
+    const empty = physical.map((v) => (Number.isFinite(v) ? -1 : NaN))
+    return { transform: t, physical, targets: empty, fitField: empty, allDry: true, summary: { ...base, ...counts, lambda: t.lambda, lambdaFitted: false } }
+  }
+  let lambda = fixedLambda ?? DEFAULT_CENSORED_LAMBDA, lambdaFitted = false, lambdaAtBound: TransformSummary['lambdaAtBound'] = null
+  let dryTarget: number, marginal: Pick<TransformSummary, 'latentMean' | 'latentSd' | 'coarseDryProbability'> = {}
+  const wetLatent = (l: number) => valid.filter((k) => physical[k]! > 0).map((k) => Math.pow(physical[k]!, l))
+  const distinctWet = new Set(wetLatent(1)).size
+  if (distinctWet >= 2) {
+    const fit = fitCensoredPower(valid.map((k) => physical[k]!), undefined, fixedLambda)
+    lambda = fit.lambda; lambdaFitted = fit.lambdaFitted; lambdaAtBound = fit.atBound
+    const alpha = -fit.mean / fit.sd
+    dryTarget = fit.mean - fit.sd * inverseMillsRatio(alpha)
+    marginal = { latentMean: fit.mean, latentSd: fit.sd, coarseDryProbability: fit.dryProbability }
+  } else {
+    // One wet value (or all equal): no spread to fit; mirror it below the bound.
+    dryTarget = -wetLatent(lambda)[0]!
+  }
+  const t = latentTransform('censored', lambda)
+  const targets = physical.map((v) => (!Number.isFinite(v) ? NaN : v > 0 ? t.toLatent(v) : dryTarget))
+  const fitOnWetOnly = wetBlocks >= MIN_VALID_CELLS && distinctWet >= 2
+  const fitField = fitOnWetOnly ? physical.map((v, k) => (v > 0 ? targets[k]! : NaN)) : targets
+  return {
+    transform: t, physical, targets, fitField, allDry: false,
+    summary: { ...base, ...counts, lambda, lambdaFitted, lambdaAtBound, dryTarget, ...marginal, fitOnWetOnly },
+  }
+}
