@@ -6,7 +6,9 @@
  *   c_{t,0} = e^{−(T_t − T₀)/τ},  c_{t,s} = √(1 − ρ_s²) e^{−(T_t − T_s)/τ}  (s ≥ 1),  Σ_s c²_{t,s} = 1,
  * so corr(w_t, w_u) = e^{−|T_t − T_u|/τ} for any two leads (uneven spacing included). A task at lead t
  * regenerates ε₀…ε_t from their seeds; the oldest innovations are dropped while their total weight
- * Σ c² stays below `truncation` (the rest renormalised), which changes any correlation by less than that.
+ * Σ c² stays below `truncation` (the rest renormalised). By Cauchy–Schwarz that changes a correlation
+ * by at most about √truncation (0.01 by default), and only between leads many τ apart, whose
+ * correlation is itself of that order.
  */
 
 export interface LeadNoiseWeights {
