@@ -74,7 +74,8 @@ export function checkLeadIndex(run: RunRow, leadIndex: number): void {
 /** Fine-grid geometry, outline and bounds of a run (cached; geometry depends only on grid and factor). */
 export function runPlacement(run: Pick<RunRow, 'id' | 'grid' | 'settings'>): RunPlacement {
   const factor = run.settings!.factor
-  const key = `${run.id}:${factor}:${run.grid.nx}x${run.grid.ny}:${run.grid.proj4}:${run.grid.x[0]}:${run.grid.y[0]}`
+  const { grid } = run
+  const key = `${run.id}:${factor}:${grid.nx}x${grid.ny}:${grid.proj4}:${grid.x[0]},${grid.x[grid.nx - 1]}:${grid.y[0]},${grid.y[grid.ny - 1]}`
   const cached = placements.get(key)
   if (cached) { placements.delete(key); placements.set(key, cached); return cached }
   const geometry = fineGeometry(run.grid, factor)
@@ -189,7 +190,7 @@ export function cachedProbabilityMaps(entry: LeadSamples, threshold: number, dir
   // disk-extreme stack (~1.4 s of blocked server per radius): a radius change must stay quick too.
   const maps = entry.plan.probabilityMaps(threshold, direction, radiusCells)
   entry.maps.set(key, maps)
-  while (entry.maps.size > 4) entry.maps.delete(entry.maps.keys().next().value!)
+  while (entry.maps.size > 8) entry.maps.delete(entry.maps.keys().next().value!)
   return maps
 }
 
