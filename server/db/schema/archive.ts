@@ -20,6 +20,10 @@ export const briefingSearch = pgTable('briefing_search', {
   /** Copied from the briefing so filters and date ordering are answered from this table's indexes. */
   status: briefingStatusEnum('status').notNull(),
   issuedAt: timestamp('issued_at', { withTimezone: true }),
+  authorId: integer('author_id'),
+  approvedById: integer('approved_by_id'),
+  /** Lists the version was sent to (kept by a trigger on briefing_lists). */
+  listIds: integer('list_ids').array().notNull().default(sql`'{}'::int[]`),
   document: tsvector('document').notNull(),
   hazards: text('hazards').array().notNull().default(sql`'{}'::text[]`),
   areaNames: text('area_names').array().notNull().default(sql`'{}'::text[]`),
@@ -29,6 +33,9 @@ export const briefingSearch = pgTable('briefing_search', {
   refreshedAt: timestamp('refreshed_at', { withTimezone: true }).notNull().defaultNow(),
 }, (t) => [
   index('briefing_search_issued_idx').on(t.issuedAt),
+  index('briefing_search_author_idx').on(t.authorId),
+  index('briefing_search_approver_idx').on(t.approvedById),
+  index('briefing_search_lists_idx').using('gin', t.listIds),
   index('briefing_search_document_idx').using('gin', t.document),
   index('briefing_search_hazards_idx').using('gin', t.hazards),
   index('briefing_search_footprint_idx').using('gist', t.footprint),
