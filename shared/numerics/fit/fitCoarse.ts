@@ -447,11 +447,15 @@ function fitShape(
   }
 }
 
-/** The kernel a fit describes, for the downscaler (grf/downscaler.ts): anisotropy included when adopted. */
-export function kernelParamsOf(fit: FitResult): KernelParams {
+/**
+ * The kernel a fit describes, for the downscaler (grf/downscaler.ts): anisotropy included when adopted; the
+ * fitted nugget (fine-cell variance) unless `withNugget` is false (the smooth part only).
+ */
+export function kernelParamsOf(fit: FitResult, withNugget = true): KernelParams {
   const a = fit.anisotropy
   return {
-    kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nugget: fit.nugget,
+    kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance,
+    ...(withNugget ? { nugget: fit.nugget } : {}),
     ...(fit.nu !== undefined ? { nu: fit.nu } : {}),
     ...(a?.adopted && a.ratio !== 1 ? { anisotropy: { ratio: a.ratio, angle: a.angle } } : {}),
   }

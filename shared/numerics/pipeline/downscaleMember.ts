@@ -3,18 +3,24 @@
  * likelihood), then draw conditional fine-scale samples (conditioning by kriging) and pack them.
  * Optional extensions: a latent transform for non-Gaussian variables (fit and conditioning in the
  * latent space, physical block means restored after the back-transform: transform/), and noise that
- * is autoregressive across lead times (coherence/), each task still computed on its own.
+ * is autoregressive across lead times (coherence/), each task still computed on its own; geometric
+ * anisotropy of the prior (fit/anisotropySearch.ts) and changing regimes (local fits on overlapping
+ * windows, blended: regimes/), both off by default.
  * Pure: used by the job worker's threads, the demo seeding and the command line alike.
  */
 import { coherentWhiteNoise } from '../coherence/coherentNoise'
 import { leadCorrelation } from '../coherence/leadNoiseWeights'
-import { defaultLengthScaleBounds, fitCoarseField, type FitResult } from '../fit/fitCoarse'
-import { createDownscaler, type Downscaler } from '../grf/downscaler'
+import { defaultLengthScaleBounds, fitCoarseField, kernelParamsOf, type FitResult } from '../fit/fitCoarse'
+import { createDownscaler } from '../grf/downscaler'
 import type { KernelName } from '../grf/kernels'
 import { packInt16, type PackedInt16 } from '../io/packInt16'
 import { prepareLatentCoarse, type TransformSummary } from '../transform/latentCoarse'
 import type { TransformOption } from '../transform/latentTransform'
 import { restorePhysicalBlockMeans, type PhysicalMeanOptions, type PhysicalMeanReport } from '../transform/physicalBlockMeans'
+import { fitRegimes, type RegimeFit } from '../regimes/fitRegimes'
+import { createRegimeDownscaler, windowSeed } from '../regimes/regimeDownscaler'
+import type { CoarseRect } from '../regimes/regimeWindows'
+import { regimeSampler, stationarySampler, type MemberSampler } from './memberSampler'
 
 /** Time-coherent samples: sample k of this member at this lead shares AR(1) noise with sample k at the other leads. */
 export interface TimeCoherenceInput {
@@ -59,6 +65,36 @@ export interface DownscaleMemberInput {
   physicalMeans?: PhysicalMeanOptions
   /** Time-coherent noise across lead times; absent = independent samples per lead (seeded by `seed`). */
   timeCoherence?: TimeCoherenceInput
+  /** Geometric anisotropy of the prior: 'off' (default) or 'fit' (used when significant; reported in fit.anisotropy). */
+  anisotropy?: 'off' | 'fit'
+  /**
+   * Changing regimes: 'off' (default) or 'windows': local ℓ and σ² on overlapping windows of the coarse field,
+   * kept where they differ significantly from the whole-domain fit, samples blended (regimes/). When no window
+   * differs, the stationary model is used as it is (except with timeCoherence, where the windowed sampler is
+   * kept so that the noise of every lead is organised the same way).
+   */
+  regimes?: 'off' | 'windows'
+}
+
+/** The regime option's outcome, per window (for the run's parameter table and map). */
+export interface RegimeSummary {
+  /** True when the samples come from the blended windowed sampler. */
+  used: boolean
+  /** Why not, when the option was on but the stationary model was used. */
+  note?: string
+  tiles: [number, number]
+  departures: number
+  windows: {
+    /** The tile the window was fitted on (coarse cells [x0, x1) × [y0, y1)). */
+    tile: CoarseRect
+    departs: boolean
+    lengthScale: number
+    lengthScaleKm: number
+    variance: number
+    /** Likelihood-ratio statistic against the whole-domain fit and its degrees of freedom. */
+    statistic: number
+    degreesOfFreedom: number
+  }[]
 }
 
 /** Default cap on the fitted length scale, in coarse cells (see DownscaleMemberInput). */
@@ -74,6 +110,8 @@ export interface MemberFit extends Omit<FitResult, 'profile'> {
   lengthScaleKm: number
   lengthScaleIntervalKm: [number, number]
   profile: { lengthScaleKm: number; logLikelihood: number }[]
+  /** Present when input.regimes is 'windows'. */
+  regimes?: RegimeSummary
 }
 
 export interface DownscaleMemberOutput {
@@ -116,17 +154,18 @@ export function sampleMember(input: DownscaleMemberInput): MemberSamples {
   if (latent.allDry) return allDryOutput(input, latent.summary)
   const [lower, upper] = defaultLengthScaleBounds(nx, ny, factor)
   const cap = (input.maxLengthScaleCoarseCells ?? DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS) * factor
-  const fit = fitCoarseField(latent.fitField, nx, ny, { factor, kernel: input.kernel, lengthScaleBounds: [lower, Math.max(lower * 2, Math.min(upper, cap))] })
-  const kmPerFine = input.spacingKm / factor
-  const downscaler = createDownscaler({
-    coarse: latent.targets, nx, ny, factor,
-    // The fit's nugget (estimated for se) describes noise in the coarse values; as fine-scale white
-    // noise it would turn every sample into static (its fine variance is η·b²·σ², often above σ²).
-    // Samples use the smooth part; the engine adds only the numerical nugget it needs to solve C,
-    // and block means are still reproduced exactly.
-    kernel: { kernel: fit.kernel, lengthScale: fit.lengthScale, variance: fit.variance, nu: fit.nu },
-    mean: fit.mean,
+  const fit = fitCoarseField(latent.fitField, nx, ny, {
+    factor, kernel: input.kernel, lengthScaleBounds: [lower, Math.max(lower * 2, Math.min(upper, cap))], anisotropy: input.anisotropy ?? 'off',
   })
+  const kmPerFine = input.spacingKm / factor
+  // The fit's nugget (estimated for se) describes noise in the coarse values; as fine-scale white
+  // noise it would turn every sample into static (its fine variance is η·b²·σ², often above σ²).
+  // Samples use the smooth part; the engine adds only the numerical nugget it needs to solve C,
+  // and block means are still reproduced exactly.
+  const regimes = input.regimes === 'windows' ? chooseRegimes(latent.fitField, latent.targets, fit, input) : undefined
+  const downscaler: MemberSampler = regimes?.sampler ?? stationarySampler(createDownscaler({
+    coarse: latent.targets, nx, ny, factor, kernel: kernelParamsOf(fit, false), mean: fit.mean,
+  }))
   const { samples: latentSamples, coherence } = drawSamples(downscaler, input)
   let samples = latentSamples, physicalMeans: PhysicalMeanReport | undefined
   if (latent.transform.name !== 'none') {
@@ -153,6 +192,7 @@ export function sampleMember(input: DownscaleMemberInput): MemberSamples {
       lengthScaleKm: fit.lengthScale * kmPerFine,
       lengthScaleIntervalKm: [fit.lengthScaleInterval[0] * kmPerFine, fit.lengthScaleInterval[1] * kmPerFine],
       profile: profile.map((p) => ({ lengthScaleKm: p.lengthScale * kmPerFine, logLikelihood: p.logLikelihood })),
+      ...(regimes ? { regimes: regimes.summary(kmPerFine) } : {}),
     },
     samples, fineNx, fineNy, blockMeanError,
     diagnostics: {
@@ -163,14 +203,48 @@ export function sampleMember(input: DownscaleMemberInput): MemberSamples {
   }
 }
 
-/** Latent samples: seeded per lead, or from time-coherent noise. */
-function drawSamples(downscaler: Downscaler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number> } {
+/**
+ * Option regimes 'windows': local fits, and the blended sampler when some window departs from the
+ * whole-domain fit (or always, with time coherence). Falls back to the stationary model, with a note,
+ * when the grid is too small for two tiles or a window has nothing to condition on.
+ */
+function chooseRegimes(fitField: Float64Array, targets: Float64Array, fit: FitResult, input: DownscaleMemberInput) {
+  const { nx, ny, factor } = input
+  let note: string | undefined
+  let regimeFit: RegimeFit | undefined
+  let sampler: MemberSampler | undefined
+  try {
+    regimeFit = fitRegimes(fitField, nx, ny, fit, { factor, withNugget: false })
+    if (regimeFit.windows.length < 2) note = 'grid too small for two windows'
+    else if (regimeFit.departures === 0 && !input.timeCoherence) note = 'no window differs significantly from the whole-domain fit'
+    else {
+      sampler = regimeSampler(createRegimeDownscaler({
+        coarse: targets, nx, ny, factor, layout: regimeFit.layout, priors: regimeFit.windows.map((w) => ({ kernel: w.kernel, mean: w.mean })),
+      }))
+    }
+  } catch (err) {
+    note = `windowed model not used: ${(err as Error).message}`
+  }
+  const summary = (kmPerFine: number): RegimeSummary => ({
+    used: sampler !== undefined, ...(note ? { note } : {}),
+    tiles: regimeFit ? [regimeFit.layout.tilesX, regimeFit.layout.tilesY] : [1, 1],
+    departures: regimeFit?.departures ?? 0,
+    windows: (regimeFit?.windows ?? []).map((w) => ({
+      tile: w.window.tile, departs: w.departs, lengthScale: w.kernel.lengthScale, lengthScaleKm: w.kernel.lengthScale * kmPerFine,
+      variance: w.kernel.variance, statistic: w.statistic, degreesOfFreedom: w.degreesOfFreedom,
+    })),
+  })
+  return { sampler, summary }
+}
+
+/** Latent samples: seeded per lead, or from time-coherent noise (one independent stream per regime window). */
+function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number> } {
   const tc = input.timeCoherence
   if (!tc) return { samples: downscaler.samples(input.samples, input.seed) }
   const noise = coherentWhiteNoise(tc)
   const t = tc.leadIndex
   return {
-    samples: downscaler.samplesFromNoise(input.samples, noise),
+    samples: downscaler.samplesFromNoise(input.samples, (w) => (w === 0 ? noise : coherentWhiteNoise({ ...tc, noiseSeed: windowSeed(tc.noiseSeed, w) }))),
     coherence: {
       leadIndex: t, timeScaleHours: tc.timeScaleHours,
       correlationWithPreviousLead: t > 0 ? leadCorrelation(tc.leadHours[t]!, tc.leadHours[t - 1]!, tc.timeScaleHours) : NaN,
