@@ -2,7 +2,7 @@
  * Archive search over every issued briefing version (issued, withdrawn and superseded ones):
  * PostgreSQL full-text search on the weighted document in briefing_search (GIN), ranked with
  * ts_rank, snippets from ts_headline; filters on issue date, hazard (GIN on the array), status,
- * author, approver, distribution list, and an area drawn on the map (ST_Intersects on the GiST-
+ * author, approver, distribution list (copied into the index), and an area drawn on the map (ST_Intersects on the GiST-
  * indexed union of the briefing's areas). No Nitro globals: the bench imports this file.
  */
 import { sql, type SQL } from 'drizzle-orm'
@@ -47,9 +47,9 @@ export function archiveSearchParts(query: ArchiveQuery, hasText: boolean) {
   if (query.to) where.push(sql`${S.issuedAt} < (${`${query.to}T00:00:00Z`}::timestamptz + interval '1 day')`)
   if (query.hazard) where.push(sql`${S.hazards} @> array[${query.hazard}]::text[]`)
   if (query.area) where.push(sql`ST_Intersects(${S.footprint}, ST_SetSRID(ST_GeomFromGeoJSON(${JSON.stringify(query.area)}), 4326))`)
-  if (query.list) where.push(sql`exists (select 1 from ${tables.briefingLists} bl where bl.briefing_id = ${S.briefingId} and bl.list_id = ${query.list})`)
-  if (query.author) where.push(sql`exists (select 1 from ${B} a where a.id = ${S.briefingId} and a.author_id = ${query.author})`)
-  if (query.approver) where.push(sql`exists (select 1 from ${B} a where a.id = ${S.briefingId} and a.approved_by_id = ${query.approver})`)
+  if (query.list) where.push(sql`${S.listIds} @> array[${query.list}]::int[]`)
+  if (query.author) where.push(sql`${S.authorId} = ${query.author}`)
+  if (query.approver) where.push(sql`${S.approvedById} = ${query.approver}`)
   const order = query.order ?? (hasText ? 'relevance' : 'newest')
   const rank = hasText ? sql`ts_rank(${S.document}, ${tsq}, 1)` : sql`null::real`
   const orderBy = order === 'relevance' && hasText
@@ -58,12 +58,21 @@ export function archiveSearchParts(query: ArchiveQuery, hasText: boolean) {
   return { tsq, where: sql.join(where, sql` and `), rank, orderBy, order }
 }
 
-/** The page query: matching ids, rank and the total, for one page. */
+/** The page query: matching ids and rank, for one page (the total is counted separately). */
 export function archivePageSql(query: ArchiveQuery, hasText: boolean): SQL {
   const p = archiveSearchParts(query, hasText)
   const offset = (query.page - 1) * ARCHIVE_PAGE_SIZE
-  return sql`select ${S.briefingId} as id, ${p.rank} as rank, count(*) over ()::int as total
+  return sql`select ${S.briefingId} as id, ${p.rank} as rank
     from ${S} where ${p.where} order by ${p.orderBy} limit ${ARCHIVE_PAGE_SIZE} offset ${offset}`
+}
+
+/** Counting stops here: "1 000 or more" (50 pages) is as useful as an exact figure and far cheaper. */
+export const ARCHIVE_COUNT_CAP = 1_000
+
+/** How many versions match, up to the cap (no ordering, so the cheapest plan can answer it). */
+export function archiveCountSql(query: ArchiveQuery, hasText: boolean): SQL {
+  const p = archiveSearchParts(query, hasText)
+  return sql`select count(*)::int as n from (select 1 from ${S} where ${p.where} limit ${ARCHIVE_COUNT_CAP + 1}) as matching`
 }
 
 /** Whether the words make a non-empty text query (only stop words → ignored, with a note). */
@@ -84,10 +93,11 @@ function splitSnippet(text: string): { text: string; hit: boolean }[] {
 /** Runs a search: one page of hits, the total, and whether the text part was usable. */
 export async function searchArchive(query: ArchiveQuery, db: Database = useDB()) {
   const hasText = await textQueryUsable(db, query.q)
-  const page = await db.execute(archivePageSql(query, hasText))
-  const ids = page.rows as unknown as { id: number; rank: number | null; total: number }[]
-  const total = ids[0]?.total ?? 0
-  if (ids.length === 0) return { hits: [] as ArchiveHit[], total, page: query.page, pageSize: ARCHIVE_PAGE_SIZE, textIgnored: !!query.q && !hasText, order: archiveSearchParts(query, hasText).order }
+  const [page, counted] = await Promise.all([db.execute(archivePageSql(query, hasText)), db.execute(archiveCountSql(query, hasText))])
+  const ids = page.rows as unknown as { id: number; rank: number | null }[]
+  const n = Number((counted.rows[0] as { n: number }).n)
+  const base = { total: Math.min(n, ARCHIVE_COUNT_CAP), totalCapped: n > ARCHIVE_COUNT_CAP, page: query.page, pageSize: ARCHIVE_PAGE_SIZE, textIgnored: !!query.q && !hasText, order: archiveSearchParts(query, hasText).order }
+  if (ids.length === 0) return { hits: [] as ArchiveHit[], ...base }
 
   const tsq = hasText ? sql`websearch_to_tsquery('english', ${query.q})` : null
   const body = sql`concat_ws(' · ', b.title, b.narrative->>'headline', b.narrative->>'summary',
@@ -101,7 +111,7 @@ export async function searchArchive(query: ArchiveQuery, db: Database = useDB())
       b.window_end as "windowEnd", s.hazards, s.area_names as "areaNames", au.display_name as "authorName", ap.display_name as "approverName",
       b.withdrawn_reason as "withdrawnReason",
       coalesce((select array_agg(bl.list_name order by bl.list_name) from ${tables.briefingLists} bl where bl.briefing_id = b.id), '{}') as lists,
-      (select n.id from ${B} n where n.supersedes_id = b.id and n.issued_at is not null order by n.version limit 1) as "supersededBy",
+      (select n.id from ${B} n where n.series_id = b.series_id and n.version > b.version and n.issued_at is not null order by n.version limit 1) as "supersededBy",
       ${snippet} as snippet
     from ${B} b join ${S} s on s.briefing_id = b.id
     left join ${tables.users} au on au.id = b.author_id
@@ -122,7 +132,7 @@ export async function searchArchive(query: ArchiveQuery, db: Database = useDB())
       withdrawnReason: d.withdrawnReason,
     }
   })
-  return { hits, total, page: query.page, pageSize: ARCHIVE_PAGE_SIZE, textIgnored: !!query.q && !hasText, order: archiveSearchParts(query, hasText).order }
+  return { hits, ...base }
 }
 
 /** Choices for the filter controls: people who wrote or approved issued briefings, and the lists. */
