@@ -3,21 +3,10 @@
  * shapes of their answers. Images are plain URLs: the map's image source fetches them itself.
  */
 import type { MultiPolygon, Polygon } from 'geojson'
-import type { Hazard, ProductName, ThresholdDirection } from '#shared/schemas/products'
-import type { AreaKind } from '#shared/schemas/areas'
+import type { AreaRowProducts, DisplayClass, Hazard, PointReadout, ProductName, ThresholdDirection } from '#shared/schemas/products'
+import type { AreaRecord } from '#shared/schemas/areas'
 
-export interface DisplayClassDto {
-  index: number
-  label: string
-  lower: number
-  upper: number
-  colour: string
-  textColour: string
-  hatched: boolean
-  noScenario: boolean
-  minCount?: number
-  maxCount?: number
-}
+export type DisplayClassDto = DisplayClass
 
 export interface ProductSummary {
   run: { id: number; name: string; isDemo: boolean; displayUnits: string; standardName: string | null; leadTimes: string[] }
@@ -35,50 +24,11 @@ export interface ProductSummary {
   timing: { loadMs: number; requestLoadMs: number; computeMs: number }
 }
 
-export interface PointReadoutDto {
-  lead: { index: number; validTime: string; when: string }
-  event: string
-  inside: boolean
-  missing?: boolean
-  lon: number
-  lat: number
-  cell?: { i: number; j: number; lon: number; lat: number }
-  samples?: number
-  members?: number
-  value?: { mean: number; min: number; max: number; p10: number; p50: number; p90: number; units: string }
-  coarse?: { mean: number; min: number; max: number }
-  probability?: { value: number; count: number }
-  membersAgreeing?: { count: number; of: number; rule: string }
-  neighbourhood?: { radiusKm: number; cells: number; nep: number; nmep: number; nmepCount: number; membersWithin: number }
-}
+export type PointReadoutDto = PointReadout & { lead: { index: number; validTime: string; when: string }; event: string }
 
-export interface AreaDto {
-  id: number
-  name: string
-  tags: string[]
-  kind: AreaKind
-  circle: { centre: [number, number]; radiusKm: number } | null
-  geometry: MultiPolygon
-  ownerId: number | null
-  ownerName: string | null
-  isDemo: boolean
-  canEdit: boolean
-  createdAt: string
-  updatedAt: string
-}
+export type AreaDto = AreaRecord<string> & { canEdit: boolean }
 
-export interface AreaRowDto {
-  samples: number
-  members: number
-  anywhere: number
-  anywhereCount: number
-  areaMean: number
-  areaMeanCount: number
-  fractionExpected: number
-  membersAnywhere: number
-  areaMax: { p10: number; p50: number; p90: number }
-  areaMin: { p10: number; p50: number; p90: number }
-}
+export type AreaRowDto = AreaRowProducts
 
 export interface AreaProductsDto {
   area: { id: number; name: string }

@@ -13,6 +13,7 @@ import { rasteriseOnAxes, rasteriseOnCells } from '../../shared/numerics/geo/ras
 import { fineCellCentresLonLat, locateFineCell } from './runGeometry'
 import { leadSamples, type LeadSamples, type RunPlacement, type RunRow } from './runSamples'
 import { eventPhrase, validTimeText } from './products'
+import type { AreaRowProducts } from '../../shared/schemas/products'
 
 export interface AreaOnGrid {
   /** Fine cells of the area (row-major indices), ascending; empty when the area misses the grid. */
@@ -78,26 +79,15 @@ function membersCrossing(samples: AreaSamples, sampleStart: number[], threshold:
   return count
 }
 
-export interface AreaLeadProducts {
+export interface AreaLeadProducts extends AreaRowProducts {
   leadIndex: number
   validTime: string
   when: string
-  samples: number
-  members: number
-  anywhere: number
-  anywhereCount: number
-  areaMean: number
-  areaMeanCount: number
-  fractionExpected: number
-  /** Members with at least one sample crossing somewhere in the area. */
-  membersAnywhere: number
-  areaMax: { p10: number; p50: number; p90: number }
-  areaMin: { p10: number; p50: number; p90: number }
 }
 
 function named(q: number[]) { return { p10: q[0]!, p50: q[1]!, p90: q[2]! } }
 
-function productsOf(subs: EnsembleStack[], mask: AreaMask, entries: LeadSamples[], threshold: number, direction: Direction) {
+function productsOf(subs: EnsembleStack[], mask: AreaMask, entries: LeadSamples[], threshold: number, direction: Direction): AreaRowProducts {
   const a = areaProducts(subs.length === 1 ? subs[0]! : subs, mask, threshold, direction, { percents: [10, 50, 90] })
   const n = subs[0]!.members.length
   const samples = windowAreaSamples(subs.map((s) => areaSamples(s, mask)))

@@ -11,23 +11,11 @@ import type { MultiPolygon, Polygon } from 'geojson'
 import { circlePolygon, rectanglePolygon } from '../../shared/numerics/geo/shapes'
 import { formatProblem, validateAreaGeoJson, type GeoJsonProblem } from '../../shared/numerics/geo/validateGeoJson'
 import { DEMO_PLACES, DEMO_STAKEHOLDERS, KALDOR_RIDGE } from '../../shared/demo/region'
-import { NAME_PROPERTIES, type AreaKind, type CreateAreaInput, type UpdateAreaInput } from '../../shared/schemas/areas'
+import { NAME_PROPERTIES, type AreaKind, type AreaRecord as SharedAreaRecord, type CreateAreaInput, type UpdateAreaInput } from '../../shared/schemas/areas'
 import { useDB, tables, type Database } from './db'
 import { recordAudit } from './audit'
 
-export interface AreaRecord {
-  id: number
-  name: string
-  tags: string[]
-  kind: AreaKind
-  circle: { centre: [number, number]; radiusKm: number } | null
-  geometry: MultiPolygon
-  ownerId: number | null
-  ownerName: string | null
-  isDemo: boolean
-  createdAt: Date
-  updatedAt: Date
-}
+export type AreaRecord = SharedAreaRecord<Date>
 
 const a = tables.areas
 const selection = {

@@ -14,7 +14,9 @@ import type { Direction } from '../../shared/numerics/ensemble/stack'
 import {
   hexColour, labelTextColour, NO_SCENARIO_HATCH, niceSteps, probabilityClassColour, valueClassColour, type Rgb, type Rgba,
 } from '../../shared/utils/colourScale'
-import { isProbabilityProduct, NEP_NMEP_EXPLANATION, type ProductName } from '../../shared/schemas/products'
+import { isProbabilityProduct, NEP_NMEP_EXPLANATION, type DisplayClass, type PointReadout, type ProductName } from '../../shared/schemas/products'
+
+export type { DisplayClass, PointReadout }
 import { cachedProbabilityMaps, leadSamples, runForProducts, runPlacement, type LeadSamples, type RunPlacement, type RunRow } from './runSamples'
 import { locateFineCell, parentCoarseCell, type FineGeometry } from './runGeometry'
 import { encodePng, mercatorFrame, pixelCellTable, renderClasses, type ImageLine, type ImagePalette, type MercatorFrame } from './productImage'
@@ -24,23 +26,6 @@ export interface ProductRequest {
   threshold: number
   direction: Direction
   radiusKm: number
-}
-
-/** One display class of a map: what it covers, its colour and the text colour for its label. */
-export interface DisplayClass {
-  index: number
-  label: string
-  /** Probability classes: (lower, upper]; value classes: [lower, upper). */
-  lower: number
-  upper: number
-  colour: string
-  textColour: string
-  /** "No scenario": drawn as hatching, never filled. */
-  hatched: boolean
-  noScenario: boolean
-  /** Member counts k (of N samples) in a probability class. */
-  minCount?: number
-  maxCount?: number
 }
 
 export interface ProductLegend {
@@ -304,22 +289,6 @@ export function renderFieldImage(run: RunRow, entry: LeadSamples, placement: Run
 }
 
 // --- Point readout ---------------------------------------------------------------------------
-
-export interface PointReadout {
-  inside: boolean
-  missing?: boolean
-  lon: number
-  lat: number
-  cell?: { i: number; j: number; lon: number; lat: number }
-  samples?: number
-  members?: number
-  value?: { mean: number; min: number; max: number; p10: number; p50: number; p90: number; units: string }
-  coarse?: { mean: number; min: number; max: number }
-  probability?: { value: number; count: number }
-  /** Members with at least one of their samples crossing the threshold at this cell. */
-  membersAgreeing?: { count: number; of: number; rule: string }
-  neighbourhood?: { radiusKm: number; cells: number; nep: number; nmep: number; nmepCount: number; membersWithin: number }
-}
 
 /**
  * Everything known at one place: sample statistics of its fine cell, the probability and how many

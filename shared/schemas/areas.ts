@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import type { MultiPolygon } from 'geojson'
 
 export const AREA_KINDS = ['polygon', 'rectangle', 'circle'] as const
 export type AreaKind = (typeof AREA_KINDS)[number]
@@ -44,3 +45,18 @@ export const importAreasQuerySchema = z.object({ tag: z.string().trim().min(1).m
 
 /** Feature properties tried, in order, for an imported area's name. */
 export const NAME_PROPERTIES = ['name', 'title', 'label', 'NAME']
+
+/** A stored area as the server returns it (dates as Date on the server, strings once serialised). */
+export interface AreaRecord<TDate = Date> {
+  id: number
+  name: string
+  tags: string[]
+  kind: AreaKind
+  circle: { centre: [number, number]; radiusKm: number } | null
+  geometry: MultiPolygon
+  ownerId: number | null
+  ownerName: string | null
+  isDemo: boolean
+  createdAt: TDate
+  updatedAt: TDate
+}

@@ -75,6 +75,55 @@ export function hazardsForRun(standardName: string | null, canonicalUnits: strin
   })
 }
 
+/** One display class of a map: what it covers, its colour and the text colour for its label. */
+export interface DisplayClass {
+  index: number
+  label: string
+  /** Probability classes: (lower, upper]; value classes: [lower, upper). */
+  lower: number
+  upper: number
+  colour: string
+  textColour: string
+  /** "No scenario": drawn as hatching, never filled. */
+  hatched: boolean
+  noScenario: boolean
+  /** Member counts k (of N samples) in a probability class. */
+  minCount?: number
+  maxCount?: number
+}
+
+/** The numbers at one place (point readout). */
+export interface PointReadout {
+  inside: boolean
+  missing?: boolean
+  lon: number
+  lat: number
+  cell?: { i: number; j: number; lon: number; lat: number }
+  samples?: number
+  members?: number
+  value?: { mean: number; min: number; max: number; p10: number; p50: number; p90: number; units: string }
+  coarse?: { mean: number; min: number; max: number }
+  probability?: { value: number; count: number }
+  /** Members with at least one of their samples crossing the threshold at this cell. */
+  membersAgreeing?: { count: number; of: number; rule: string }
+  neighbourhood?: { radiusKm: number; cells: number; nep: number; nmep: number; nmepCount: number; membersWithin: number }
+}
+
+/** Area products of one lead time or one time window, from the joint samples. */
+export interface AreaRowProducts {
+  samples: number
+  members: number
+  anywhere: number
+  anywhereCount: number
+  areaMean: number
+  areaMeanCount: number
+  fractionExpected: number
+  /** Members with at least one sample crossing somewhere in the area. */
+  membersAnywhere: number
+  areaMax: { p10: number; p50: number; p90: number }
+  areaMin: { p10: number; p50: number; p90: number }
+}
+
 const finite = z.coerce.number().refine(Number.isFinite, 'Enter a finite number.')
 
 export const hazardParamSchema = z.object({ hazard: z.enum(HAZARDS) })

@@ -61,23 +61,16 @@ describe('colour conversions', () => {
 describe('ramps', () => {
   const samples = (ramp: typeof PROBABILITY_RAMP) => Array.from({ length: 101 }, (_, k) => rampColour(ramp, k / 100))
 
-  it('the probability ramp darkens monotonically (luminance strictly decreasing), also as seen with each colour-vision deficiency', () => {
-    const colours = samples(PROBABILITY_RAMP)
-    for (let k = 1; k < colours.length; k++) expect(relativeLuminance(colours[k]!)).toBeLessThan(relativeLuminance(colours[k - 1]!))
-    for (const [name, m] of Object.entries(CVD)) {
-      const lum = colours.map((c) => simulatedLuminance(c, m))
-      for (let k = 1; k < lum.length; k++) expect(lum[k], `${name} at ${k}`).toBeLessThan(lum[k - 1]!)
-    }
-  })
-
-  it('the value ramp lightens monotonically, also under each colour-vision deficiency', () => {
-    const colours = samples(VALUE_RAMP)
-    for (let k = 1; k < colours.length; k++) expect(relativeLuminance(colours[k]!)).toBeGreaterThan(relativeLuminance(colours[k - 1]!))
-    for (const [name, m] of Object.entries(CVD)) {
-      const lum = colours.map((c) => simulatedLuminance(c, m))
-      for (let k = 1; k < lum.length; k++) expect(lum[k], `${name} at ${k}`).toBeGreaterThan(lum[k - 1]!)
-    }
-  })
+  // Probability: light → dark (luminance falls); values: dark → light (luminance rises).
+  for (const [name, ramp, sign] of [['probability', PROBABILITY_RAMP, -1], ['value', VALUE_RAMP, 1]] as const) {
+    it(`the ${name} ramp changes luminance strictly monotonically, also as seen with each colour-vision deficiency`, () => {
+      const colours = samples(ramp)
+      const views: [string, (c: Rgb) => number][] = [['normal vision', relativeLuminance], ...Object.entries(CVD).map(([n, m]) => [n, (c: Rgb) => simulatedLuminance(c, m)] as [string, (c: Rgb) => number])]
+      for (const [view, lum] of views) {
+        for (let k = 1; k < colours.length; k++) expect(sign * (lum(colours[k]!) - lum(colours[k - 1]!)), `${view} at ${k}`).toBeGreaterThan(0)
+      }
+    })
+  }
 
   it('ends of the probability ramp span most of the lightness range (≥ 10:1 between them)', () => {
     expect(contrastRatio(rampColour(PROBABILITY_RAMP, 0.05), rampColour(PROBABILITY_RAMP, 0.95))).toBeGreaterThan(10)
