@@ -372,3 +372,16 @@ export function imageHeaders(frame: MercatorFrame, legendTitle: string, classes:
     'x-tessera-size': `${frame.width}x${frame.height}`,
   }
 }
+
+/**
+ * Lines for a briefing picture drawn by renderProductImage: the grid outline, the areas of
+ * interest, and for demo runs the invented coastline (basemap coastlines can be added the same way).
+ */
+export function pictureLines(placement: RunPlacement, areas: { geometry: { coordinates: number[][][][] } }[], demoCoast?: [number, number][]): ImageLine[] {
+  const lines: ImageLine[] = []
+  if (demoCoast) lines.push({ lines: [demoCoast], colour: [51, 57, 62, 255], widthPx: 1.5 })
+  lines.push({ lines: [placement.outline], colour: [19, 95, 90, 255], widthPx: 2 })
+  const rings = areas.flatMap((a) => a.geometry.coordinates.flatMap((polygon) => polygon.map((ring) => ring.map((p) => [p[0]!, p[1]!] as [number, number]))))
+  if (rings.length) lines.push({ lines: rings, colour: [14, 24, 36, 255], widthPx: 2.5 })
+  return lines
+}

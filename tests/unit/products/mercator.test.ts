@@ -154,3 +154,22 @@ describe('rendering', () => {
     expect(Buffer.compare(decoded.data, Buffer.from(data))).toBe(0)
   })
 })
+
+describe('briefing pictures', () => {
+  it('draw the product over an opaque background with the grid outline and an area ring', async () => {
+    const { runPlacement } = await import('../../../server/utils/runSamples')
+    const { pictureLines } = await import('../../../server/utils/products')
+    const placement = runPlacement({ id: 77, grid: latLonGrid(4, 4, 10, 50, 1, 1), settings: { factor: 2, samplesPerMember: 1, kernel: 'se', seed: 1 } })
+    const frame = mercatorFrame(placement.bounds, 80)
+    const table = pixelCellTable(frame, (lon, lat) => locateFineCell(placement.geometry, lon, lat))
+    const area = { geometry: { coordinates: [[[[10.6, 50.6], [12.4, 50.6], [12.4, 52.4], [10.6, 52.4], [10.6, 50.6]]]] } }
+    const data = renderClasses({
+      frame, table, classOfCell: new Int16Array(64).fill(0), palette: { colours: [[200, 200, 200, 255]] },
+      background: [255, 255, 255], lines: pictureLines(placement, [area]),
+    })
+    const px = (lon: number, lat: number) => { const [x, y] = lonLatToPixel(frame, lon, lat); const o = (Math.floor(y) * frame.width + Math.floor(x)) * 4; return Array.from(data.subarray(o, o + 4)) }
+    expect(px(11.5, 50.6)).toEqual([14, 24, 36, 255])
+    expect(px(11.5, 51.5)).toEqual([200, 200, 200, 255])
+    expect(data[3]).toBe(255)
+  })
+})
