@@ -10,6 +10,7 @@ import { join } from 'node:path'
 import pg from 'pg'
 import { drizzle } from 'drizzle-orm/node-postgres'
 import { migrate } from 'drizzle-orm/node-postgres/migrator'
+import { PgDialect } from 'drizzle-orm/pg-core'
 import * as schema from '../server/db/schema'
 import { archivePageSql, searchArchive } from '../server/utils/archiveSearch'
 import { archiveQuerySchema } from '../shared/schemas/distribution'
@@ -96,7 +97,7 @@ export async function bench(): Promise<Record<string, number | string | boolean>
       }
       const hasText = !!query.q
       const page = archivePageSql(query, hasText)
-      const { sql: text, params } = db.dialect.sqlToQuery(page)
+      const { sql: text, params } = new PgDialect().sqlToQuery(page)
       const explain = await pool.query(`explain (analyze, format json) ${text}`, params)
       const plan = (explain.rows[0] as Record<string, unknown>)['QUERY PLAN'] as [{ Plan: unknown; 'Execution Time': number }]
       const indexes = [...indexesIn(plan[0].Plan)].join(' + ') || 'none (sequential scan)'

@@ -100,7 +100,7 @@ describe('briefing mail through the routes', () => {
     const [row] = (await db.select().from(tables.mailOutbox).where(eq(tables.mailOutbox.briefingId, briefingId))).filter((r) => r.kind === 'issue')
     const entry = list.body.messages.find((m: { messageId: string }) => m.messageId === row!.messageId)
     expect(entry.attachments[0].contentType).toBe('application/pdf')
-    const pdf = await fetch(`${BASE_URL}/api/mail/received/${entry.id}/attachments/0`, { headers: { cookie: cookies.admin } })
+    const pdf = await fetch(`${BASE_URL}/api/mail/received/${entry.id}/attachments/0`, { headers: { cookie: cookies.admin! } })
     expect(pdf.headers.get('x-content-sha256')).toBe(row!.attachmentSha256)
     const detail = await call('GET', `/api/mail/received/${entry.id}`, { cookie: cookies.duty_lead })
     expect(detail.body.message.textBody).toContain('Read it in your portal')
