@@ -59,7 +59,7 @@ export async function bench(): Promise<Record<string, number | string | boolean>
     planMs += pms
     entries.push({
       runId: run.id, leadIndex: t, fingerprint: 'bench', plan, memberIndices: Array.from({ length: members }, (_, m) => m),
-      sampleStart: Array.from({ length: members + 1 }, (_, m) => m * perMember), samplesPerMember: perMember,
+      sampleStart: Array.from({ length: members + 1 }, (_, m) => m * perMember), samplesPerMember: perMember, timeCoherent: false,
       coarse: Array.from({ length: members }, () => new Float32Array(nx * ny).fill(18)), missing: null, valueRange: [5, 30], loadMs: 0, maps: new Map(),
     })
   }

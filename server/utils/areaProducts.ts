@@ -101,6 +101,14 @@ function productsOf(subs: EnsembleStack[], mask: AreaMask, entries: LeadSamples[
   }
 }
 
+/** What "any time in the window" counts: per scenario, and how the scenarios hang together in time. */
+function windowMeaning(entries: LeadSamples[]): string {
+  const base = 'At one or more of the window\'s valid times, counted per scenario (sample k of a member is the same scenario at every lead time)'
+  return entries.length && entries.every((e) => e.timeCoherent)
+    ? `${base}; the run was downscaled with time-coherent noise, so each sample's fine-scale detail is correlated from one lead time to the next.`
+    : `${base}; the fine-scale detail of each sample was drawn separately at each lead time, so only the coarse member links them.`
+}
+
 function aligned(entries: LeadSamples[]): boolean {
   const first = entries[0]!
   return entries.every((e) => e.memberIndices.join() === first.memberIndices.join() && e.sampleStart.join() === first.sampleStart.join())
@@ -152,8 +160,7 @@ export async function areaProductsForRun(run: RunRow, placement: RunPlacement, g
     note: onGrid.note,
     event: eventPhrase(run, threshold, direction),
     leads, window: windowResult, windowNote,
-    /** Sample m is member ⌊m / S⌋ at every lead time; its fine-scale detail is drawn afresh at each lead time. */
-    windowMeaning: 'At one or more of the window\'s valid times, counted per scenario: sample m is the same member at every lead time; its fine-scale detail is drawn separately for each lead time.',
+    windowMeaning: windowMeaning(inWindow.map((x) => x.e)),
     skipped,
     computeMs: Math.round(performance.now() - started),
   }

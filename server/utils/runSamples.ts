@@ -28,6 +28,8 @@ export interface LeadSamples {
   sampleStart: number[]
   /** Samples per member when all loaded members have the same number, else null. */
   samplesPerMember: number | null
+  /** Every member was downscaled with time-coherent noise (sample k correlated across lead times). */
+  timeCoherent: boolean
   /** Coarse fields of this lead time per loaded member (Float32, ny×nx, NaN = missing). */
   coarse: Float32Array[]
   /** Fine cells whose coarse cell is missing in some member (their samples are unconditioned), or null. */
@@ -109,6 +111,7 @@ async function loadLead(run: RunRow, leadIndex: number, fingerprint: string): Pr
   const tasks = await db.select({
     memberIndex: t.memberIndex, samples: t.samples, sampleOffset: t.sampleOffset, sampleScale: t.sampleScale,
     sampleCount: t.sampleCount, fineNx: t.fineNx, fineNy: t.fineNy,
+    timeCoherent: sql<boolean>`(${t.fit} -> 'diagnostics' -> 'timeCoherence') is not null`,
   }).from(t).where(and(eq(t.runId, run.id), eq(t.leadIndex, leadIndex), eq(t.status, 'done'))).orderBy(asc(t.memberIndex))
   const fields = await db.select({ memberIndex: tables.runFields.memberIndex, data: tables.runFields.data }).from(tables.runFields)
     .where(and(eq(tables.runFields.runId, run.id), eq(tables.runFields.leadIndex, leadIndex))).orderBy(asc(tables.runFields.memberIndex))
@@ -152,6 +155,7 @@ async function loadLead(run: RunRow, leadIndex: number, fingerprint: string): Pr
     plan: new ProductPlan({ nx: fineNx, ny: fineNy, members }, { neighbourhoodCacheSize: 2 }),
     memberIndices, sampleStart,
     samplesPerMember: counts.every((c) => c === counts[0]) ? counts[0]! : null,
+    timeCoherent: tasks.length > 0 && tasks.every((task) => task.timeCoherent),
     coarse, missing, valueRange: [lo, hi],
     loadMs: Math.round(performance.now() - started),
     maps: new Map(),

@@ -30,7 +30,7 @@ function fakeEntry(members: number, perMember: number, seed = 7): LeadSamples {
   return {
     runId: run.id, leadIndex: 0, fingerprint: 'test', plan: new ProductPlan({ nx, ny, members: grids }),
     memberIndices: Array.from({ length: members }, (_, m) => m), sampleStart: Array.from({ length: members + 1 }, (_, m) => m * perMember),
-    samplesPerMember: perMember, coarse: Array.from({ length: members }, () => new Float32Array(grid.nx * grid.ny).fill(15)),
+    samplesPerMember: perMember, timeCoherent: false, coarse: Array.from({ length: members }, () => new Float32Array(grid.nx * grid.ny).fill(15)),
     missing: null, valueRange: [10, 25], loadMs: 0, maps: new Map(),
   }
 }
