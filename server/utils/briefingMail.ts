@@ -15,7 +15,7 @@ import { composeBriefingMail, composeInvitationMail, type BriefingMailFacts, typ
 import { enqueueMail, type OutboxMessage } from './mailOutbox'
 import { TOKEN_LIFETIME_DAYS } from './passwordTokens'
 
-type Tx = Database
+type Tx = Pick<Database, 'select' | 'insert' | 'execute'>
 type BriefingRow = typeof tables.briefings.$inferSelect
 const L = tables.distributionLists
 
