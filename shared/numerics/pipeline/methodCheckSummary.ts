@@ -38,7 +38,9 @@ function neighbourhood(n: number, spacingKm: number | null): string {
 
 /** How a sentence names a forecast ("the posterior mean", "bicubic (block means kept)"). */
 function nameOf(f: ForecastScores): string {
-  return f.kind === 'mean' ? 'the posterior mean' : f.label.charAt(0).toLowerCase() + f.label.slice(1)
+  if (f.kind === 'mean') return 'the posterior mean'
+  const label = f.label.replace(' (block means kept)', ' with block means kept')
+  return label.charAt(0).toLowerCase() + label.slice(1)
 }
 
 /** Sentences describing the report, in reading order. */
@@ -121,7 +123,12 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
     const bestSmall = baselines.reduce((p, q) => ((q.fss[ti]![0] ?? -1) > (p.fss[ti]![0] ?? -1) ? q : p))
     const from = (n: number | null) => (n === null ? `not within ${neighbourhood(r.neighbourhoods.at(-1)!, dx)}` : `from ${neighbourhood(n, dx)}`)
     const baselineFrom = baselines.map(usefulFrom).filter((n): n is number => n !== null)
-    out.push(`Events ${label}, ${percent(t.baseRate)} of cells: at ${neighbourhood(r.neighbourhoods[0]!, dx)} the samples' FSS is ${formatNumber(ens.fss[ti]![0])} against ${formatNumber(bestSmall.fss[ti]![0])} for ${nameOf(bestSmall)} and ${formatNumber(mean.fss[ti]![0])} for the posterior mean; useful (FSS ≥ ${formatNumber(t.useful)}) for the samples ${from(usefulFrom(ens))}, for interpolation ${from(baselineFrom.length ? Math.min(...baselineFrom) : null)}.`)
+    const samplesFrom = usefulFrom(ens), interpolationFrom = baselineFrom.length ? Math.min(...baselineFrom) : null
+    const useful = `useful (FSS ≥ ${formatNumber(t.useful)})`
+    const usefulText = samplesFrom === interpolationFrom
+      ? `${useful} for the samples and for interpolation alike ${from(samplesFrom)}`
+      : `${useful} for the samples ${from(samplesFrom)}, for interpolation ${from(interpolationFrom)}`
+    out.push(`Events ${label}, ${percent(t.baseRate)} of cells: at ${neighbourhood(r.neighbourhoods[0]!, dx)} the samples' FSS is ${formatNumber(ens.fss[ti]![0])} against ${formatNumber(bestSmall.fss[ti]![0])} for ${nameOf(bestSmall)} and ${formatNumber(mean.fss[ti]![0])} for the posterior mean; ${usefulText}.`)
   })
 
   // Brier.
