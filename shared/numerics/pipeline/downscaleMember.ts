@@ -170,7 +170,7 @@ export function sampleMember(input: DownscaleMemberInput): MemberSamples {
   let samples = latentSamples, physicalMeans: PhysicalMeanReport | undefined
   if (latent.transform.name !== 'none') {
     const restored = restorePhysicalBlockMeans(latentSamples, coarse, { nx, ny, factor }, latent.transform,
-      (fields, changes) => downscaler.recondition(fields, changes), { maxStep: 2 * Math.sqrt(fit.variance), ...input.physicalMeans })
+      (fields, changes) => downscaler.recondition(fields, changes), { maxStep: 2 * Math.sqrt(fit.variance), latentScale: Math.sqrt(fit.variance), ...input.physicalMeans })
     samples = restored.samples
     physicalMeans = restored.report
   }

@@ -27,7 +27,7 @@ export function censoredToLatent(x: number, lambda: number): number {
 
 /** Amount of a latent value: 0 for g ≤ 0, g^{1/λ} above. Never negative. */
 export function censoredToPhysical(g: number, lambda: number): number {
-  return g > 0 ? Math.pow(g, 1 / lambda) : 0
+  return g > 0 ? Math.exp(Math.log(g) / lambda) : 0
 }
 
 /** dx/dg: (1/λ) g^{1/λ − 1} for g > 0, 0 for g ≤ 0. */

@@ -6,7 +6,7 @@
  * temperatures included → none. A forecaster's explicit choice always wins.
  */
 import { boxCox, inverseBoxCox, inverseBoxCoxDerivative } from './boxCox'
-import { censoredDerivative, censoredToLatent, censoredToPhysical } from './censoredPower'
+import { censoredDerivative, censoredToLatent } from './censoredPower'
 
 export type TransformName = 'none' | 'boxcox' | 'log' | 'censored'
 export type TransformOption = 'auto' | TransformName
@@ -21,6 +21,8 @@ export interface LatentTransform {
   toPhysical(g: number): number
   /** d(toPhysical)/dg. */
   derivative(g: number): number
+  /** The same derivative given x = toPhysical(g) as well, without a second power (hot loops). */
+  slopeAt(g: number, x: number): number
   /** True when latent values ≤ 0 all map to physical 0 (the censored model: dry). */
   readonly censored: boolean
 }
@@ -28,13 +30,26 @@ export interface LatentTransform {
 /** The transform `name` with parameter λ (ignored by none and log). */
 export function latentTransform(name: TransformName, lambda = name === 'log' ? 0 : 1): LatentTransform {
   switch (name) {
-    case 'none': return { name, lambda: 1, censored: false, toLatent: (x) => x, toPhysical: (g) => g, derivative: () => 1 }
-    case 'log': return { name, lambda: 0, censored: false, toLatent: Math.log, toPhysical: Math.exp, derivative: Math.exp }
+    case 'none': return { name, lambda: 1, censored: false, toLatent: (x) => x, toPhysical: (g) => g, derivative: () => 1, slopeAt: () => 1 }
+    case 'log': return { name, lambda: 0, censored: false, toLatent: Math.log, toPhysical: Math.exp, derivative: Math.exp, slopeAt: (_g, x) => x }
     case 'boxcox':
-      return { name, lambda, censored: false, toLatent: (x) => boxCox(x, lambda), toPhysical: (g) => inverseBoxCox(g, lambda), derivative: (g) => inverseBoxCoxDerivative(g, lambda) }
-    case 'censored':
+      if (lambda === 0) return { ...latentTransform('log'), name }
+      return {
+        name, lambda, censored: false, toLatent: (x) => boxCox(x, lambda), toPhysical: (g) => inverseBoxCox(g, lambda), derivative: (g) => inverseBoxCoxDerivative(g, lambda),
+        // dx/dg = (1 + λg)^{1/λ − 1} = x / (1 + λg).
+        slopeAt: (g, x) => { const base = 1 + lambda * g; return base > 0 ? x / base : 0 },
+      }
+    case 'censored': {
       if (!(lambda > 0)) throw new Error(`censored transform needs λ > 0, got ${lambda}`)
-      return { name, lambda, censored: true, toLatent: (x) => censoredToLatent(x, lambda), toPhysical: (g) => censoredToPhysical(g, lambda), derivative: (g) => censoredDerivative(g, lambda) }
+      const p = 1 / lambda
+      return {
+        name, lambda, censored: true, toLatent: (x) => censoredToLatent(x, lambda), derivative: (g) => censoredDerivative(g, lambda),
+        // exp∘log: ~2× faster than Math.pow here.
+        toPhysical: (g) => (g > 0 ? Math.exp(p * Math.log(g)) : 0),
+        // dx/dg = (1/λ) g^{1/λ − 1} = x / (λ g).
+        slopeAt: (g, x) => (g > 0 ? (p * x) / g : 0),
+      }
+    }
   }
 }
 

@@ -4,8 +4,11 @@
  * the samples' physical block means miss the coarse values y. Documented correction, per sample:
  *  1. Re-conditioning rounds (smooth): the latent targets are moved by a Newton step per block,
  *     Δ_I = (y_I − mean_I h(g)) / mean_I h′(g) (the response of the block mean to a uniform latent
- *     shift), and the sample re-conditioned to them, g ← g + K Aᵀ C⁻¹ Δ (one coarse solve and one fine
- *     FFT per two samples), until every block is within `tolerance` or after `maxIterations` rounds.
+ *     shift), and the sample re-conditioned to them, g ← g + K Aᵀ C⁻¹ Δ, until every block is within
+ *     `tolerance` or after `maxIterations` rounds. By default the rounds are shared: every sample moves
+ *     by the mean of the samples' steps, one coarse solve and one fine FFT per round whatever the
+ *     number of samples (the Jensen gap mostly depends on the block's conditional spread, common to
+ *     all samples); `shared: false` gives each sample its own step (one solve and FFT per two samples).
  *     The error of a block is |y − mean h(g)| / max(y, ȳ), ȳ the mean of the positive coarse values,
  *     so near-zero amounts are judged on the field's scale rather than their own.
  *     Censored model: a dry block (y = 0) whose latent maximum is above the threshold gets Δ = −max g
@@ -21,7 +24,7 @@
 import type { LatentTransform } from './latentTransform'
 
 export interface PhysicalMeanOptions {
-  /** Re-conditioning rounds at most (default 3). */
+  /** Re-conditioning rounds at most (default 2). */
   maxIterations?: number
   /** Relative block-mean error below which no further round is made (default 1e-3). */
   tolerance?: number
@@ -29,6 +32,8 @@ export interface PhysicalMeanOptions {
   maxStep?: number
   /** Latent standard deviation, to report the final shifts relative to it (default 1). */
   latentScale?: number
+  /** One common target change for all samples per round (default true; see the module note). */
+  shared?: boolean
 }
 
 export interface PhysicalMeanReport {
@@ -57,14 +62,16 @@ export type Recondition = (fields: Float64Array[], changes: Float64Array[]) => F
 
 interface BlockStats { meanX: number; meanSlope: number; maxG: number; minG: number }
 
-function blockStats(g: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform): BlockStats {
+/** Block statistics of h(g + δ); when `out` is given, h(g + δ) is also written to the block's cells there. */
+function blockStats(g: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform, delta = 0, out?: Float64Array): BlockStats {
   const b = grid.factor, width = grid.nx * b
   let sx = 0, sd = 0, maxG = -Infinity, minG = Infinity
   for (let q = 0; q < b; q++) {
     const row = (J * b + q) * width + I * b
-    for (let p = 0; p < b; p++) {
-      const v = g[row + p]!
-      sx += h.toPhysical(v); sd += h.derivative(v)
+    for (let p = row; p < row + b; p++) {
+      const v = g[p]! + delta, x = h.toPhysical(v)
+      if (out) out[p] = x
+      sx += x; sd += h.slopeAt(v, x)
       if (v > maxG) maxG = v
       if (v < minG) minG = v
     }
@@ -81,7 +88,7 @@ export function restorePhysicalBlockMeans(
   options: PhysicalMeanOptions = {},
 ): { samples: Float64Array[]; report: PhysicalMeanReport } {
   const { nx, ny, factor: b } = grid
-  const maxIterations = options.maxIterations ?? 3, tolerance = options.tolerance ?? 1e-3, maxStep = options.maxStep ?? Infinity
+  const maxIterations = options.maxIterations ?? 2, tolerance = options.tolerance ?? 1e-3, maxStep = options.maxStep ?? Infinity
   const report: PhysicalMeanReport = { iterations: 0, initialRelativeError: 0, iteratedRelativeError: 0, maxShift: 0, maxShiftInScale: 0, rmsShiftInScale: 0, maxRescale: 0, forcedDryFraction: 0, finalRelativeError: 0 }
   if (h.name === 'none') return { samples: latent.map((g) => Float64Array.from(g)), report }
   const m = nx * ny
@@ -110,26 +117,31 @@ export function restorePhysicalBlockMeans(
     if (round === 0) report.initialRelativeError = worst
     report.iteratedRelativeError = worst
     if (worst <= tolerance || round >= maxIterations) break
-    fields = recondition(fields, changes)
+    if (options.shared ?? true) {
+      const common = new Float64Array(m)
+      for (const c of changes) for (let k = 0; k < m; k++) common[k]! += c[k]! / changes.length
+      const [correction] = recondition([new Float64Array(fields[0]!.length)], [common])
+      fields = fields.map((g) => g.map((v, c) => v + correction![c]!))
+    } else {
+      fields = recondition(fields, changes)
+    }
     report.iterations = round + 1
   }
   let forced = 0, dryCells = 0, shiftSquares = 0, shifted = 0
   const samples = fields.map((g) => {
-    const x = g.map((v) => h.toPhysical(v))
+    const x = new Float64Array(g.length)
     for (let J = 0; J < ny; J++) for (let I = 0; I < nx; I++) {
       const y = physical[J * nx + I]!
-      if (!Number.isFinite(y)) continue
+      if (!Number.isFinite(y)) { forEachCell(grid, I, J, (c) => { x[c] = h.toPhysical(g[c]!) }); continue }
       if (h.censored && y === 0) {
         dryCells += b * b
-        forEachCell(grid, I, J, (c) => { if (x[c]! > 0) forced++; x[c] = 0 })
-        continue
+        forEachCell(grid, I, J, (c) => { if (g[c]! > 0) forced++ })
+        continue // x is already 0 there
       }
-      const delta = shiftToMean(g, x, grid, I, J, h, y)
+      const { delta, meanX } = shiftToMean(g, x, grid, I, J, h, y)
       report.maxShift = Math.max(report.maxShift, Math.abs(delta))
       shiftSquares += delta * delta; shifted++
-      let meanX = 0
-      forEachCell(grid, I, J, (c) => { meanX += x[c]! })
-      const factorY = y / (meanX / (b * b))
+      const factorY = y / meanX
       report.maxRescale = Math.max(report.maxRescale, Math.abs(factorY - 1))
       forEachCell(grid, I, J, (c) => { x[c]! *= factorY })
     }
@@ -152,37 +164,30 @@ function forEachCell(grid: BlockGrid, I: number, J: number, f: (cell: number) =>
 }
 
 /**
- * Sets x on block (I, J) to h(g + δ) with the uniform latent shift δ that makes its mean y > 0, and
- * returns δ. F(δ) = mean h(g + δ) − y increases from −y (δ → −∞) to ∞: Newton steps inside a
- * bracket, bisection when a step leaves it, until |F| ≤ 1e-13·y.
+ * Writes h(g + δ) to block (I, J) of x for the uniform latent shift δ that brings its mean to y > 0
+ * (to 1e-9 relative; the caller's rescaling does the rest), and returns δ and that mean.
+ * F(δ) = mean h(g + δ) − y increases from −y (δ → −∞) to ∞: Newton steps inside a bracket,
+ * bisection when a step leaves it.
  */
-function shiftToMean(g: Float64Array, x: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform, y: number): number {
-  const n = grid.factor * grid.factor
-  const evaluate = (delta: number): [number, number] => {
-    let s = 0, d = 0
-    forEachCell(grid, I, J, (c) => { const v = g[c]! + delta; s += h.toPhysical(v); d += h.derivative(v) })
-    return [s / n - y, d / n]
-  }
+function shiftToMean(g: Float64Array, x: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform, y: number): { delta: number; meanX: number } {
   let lo = -Infinity, hi = Infinity, delta = 0
-  let [f, slope] = evaluate(0)
-  for (let iteration = 0; iteration < 200 && Math.abs(f) > 1e-13 * y; iteration++) {
+  let st = blockStats(g, grid, I, J, h, 0, x)
+  let f = st.meanX - y
+  const span = Math.max(1, st.maxG - st.minG)
+  for (let iteration = 0; iteration < 200 && !(Math.abs(f) <= 1e-9 * y); iteration++) {
     if (f < 0) lo = delta; else hi = delta
-    let next = slope > 0 ? delta - f / slope : NaN
+    let next = st.meanSlope > 0 ? delta - f / st.meanSlope : NaN
     if (!(next > lo && next < hi)) {
       if (Number.isFinite(lo) && Number.isFinite(hi)) next = 0.5 * (lo + hi)
-      else {
-        // Expand towards the side the root is on; the step grows with the distance already travelled.
-        const { maxG, minG } = blockStats(g, grid, I, J, h)
-        const span = Math.max(1, maxG - minG, Math.abs(delta))
-        next = f < 0 ? (Number.isFinite(hi) ? 0.5 * (delta + hi) : delta + 2 * span) : (Number.isFinite(lo) ? 0.5 * (delta + lo) : delta - 2 * span)
-      }
+      // No bracket yet: step towards the root, growing with the distance already travelled.
+      else next = f < 0 ? delta + 2 * Math.max(span, Math.abs(delta)) : delta - 2 * Math.max(span, Math.abs(delta))
     }
     if (next === delta) break
     delta = next
-    ;[f, slope] = evaluate(delta)
+    st = blockStats(g, grid, I, J, h, delta, x)
+    f = st.meanX - y
   }
-  forEachCell(grid, I, J, (c) => { x[c] = h.toPhysical(g[c]! + delta) })
-  return delta
+  return { delta, meanX: st.meanX }
 }
 
 /** Largest relative |block mean − y| over wet blocks (absolute for y = 0 blocks). */

@@ -102,8 +102,7 @@ describe('censored latent Gaussian (Tobit)', () => {
     expect(s.dryTarget).toBeCloseTo(s.latentMean! - s.latentSd! * Math.exp(-0.5 * alpha * alpha) / Math.sqrt(2 * Math.PI) / Math.exp(logNormalCdf(alpha)), 12)
     const dry = x.findIndex((v) => v === 0)
     expect(prepared.targets[dry]).toBe(s.dryTarget)
-    expect(s.fitOnWetOnly).toBe(true)
-    expect(Number.isNaN(prepared.fitField[dry]!)).toBe(true)
+    expect(prepared.fitField[dry]).toBe(s.dryTarget)
   })
 })
 
@@ -130,7 +129,13 @@ describe('choice of transform', () => {
   })
   it('latent transforms round-trip', () => {
     for (const t of [latentTransform('log'), latentTransform('boxcox', 0.6), latentTransform('censored', 0.7), latentTransform('none')]) {
-      for (const x of [0.2, 3, 25]) expect(t.toPhysical(t.toLatent(x))).toBeCloseTo(x, 10)
+      for (const x of [0.2, 3, 25]) {
+        expect(t.toPhysical(t.toLatent(x))).toBeCloseTo(x, 10)
+        // The hot-loop slope from the value equals the derivative (and a central difference).
+        const g = t.toLatent(x), h = 1e-6
+        expect(t.slopeAt(g, t.toPhysical(g))).toBeCloseTo(t.derivative(g), 10)
+        expect(t.derivative(g)).toBeCloseTo((t.toPhysical(g + h) - t.toPhysical(g - h)) / (2 * h), 5)
+      }
     }
   })
 })

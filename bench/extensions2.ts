@@ -1,0 +1,119 @@
+/**
+ * Cost of the engine extensions of issue 8, part 2 (non-Gaussian variables, coherence in time),
+ * each as a ratio to the basic model measured back to back in one run:
+ *  - one member, 10 samples, full pipeline (fit + sampling + any restoration), Matérn-3/2, b = 8, at
+ *    512² and 1024² fine: Box–Cox and the censored latent Gaussian against the plain Gaussian treatment
+ *    of the same field; time-coherent noise at the 4th lead (4 innovations) against seeded noise.
+ *    Median of the per-pair ratios.
+ *  - the demo scenario (bench/demo.ts's run, same pool of threads) with every extension on (transform
+ *    'auto' by CF name, time-coherent noise with τ fitted from the coarse members) against the basic
+ *    settings, interleaved variable by variable. Size from TESSERA_EXT2_DEMO: 'full', 'small' (default)
+ *    or 'off'.
+ * Run: npx tsx -e "import('./bench/extensions2.ts').then(m=>m.bench())"
+ */
+import { availableParallelism } from 'node:os'
+import { synthesiseDemoEnsembles, type DemoEnsemble } from '../shared/demo/synthesise'
+import { fitTimeScale } from '../shared/numerics/coherence/fitTimeScale'
+import { createDownscaler } from '../shared/numerics/grf/downscaler'
+import { memberNoiseSeed, sampleMember, taskSeed, type DownscaleMemberInput, type DownscaleMemberOutput } from '../shared/numerics/pipeline/downscaleMember'
+import { inverseBoxCox } from '../shared/numerics/transform/boxCox'
+import { censoredToPhysical } from '../shared/numerics/transform/censoredPower'
+import type { PhysicalMeanReport } from '../shared/numerics/transform/physicalBlockMeans'
+import { DEMO_SIZES } from '../scripts/lib/demoRuns'
+import { ThreadPool } from '../worker/threadPool'
+
+type Figures = Record<string, number | string | boolean>
+
+const median = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return s[Math.floor(s.length / 2)]! }
+const round = (v: number, digits = 2) => +v.toFixed(digits)
+
+function timed<T>(fn: () => T): [T, number] {
+  const t = performance.now()
+  const v = fn()
+  return [v, performance.now() - t]
+}
+
+/** A smooth random coarse field (zero mean, unit variance, ℓ = 3 coarse cells) from the engine itself. */
+function coarseGaussian(side: number, seed: number): Float64Array {
+  const d = createDownscaler({ coarse: new Float64Array((side / 2) ** 2), nx: side / 2, ny: side / 2, factor: 2, kernel: { kernel: 'matern32', lengthScale: 3, variance: 1 }, mean: 0 })
+  return d.unconditional(seed, 0)
+}
+
+function memberCase(side: number, repeats: number, out: Figures): void {
+  const b = 8, label = `${side * b}`
+  const u = coarseGaussian(side, 11)
+  const gust = u.map((v) => inverseBoxCox(2.6 + 0.35 * v, 0.3))
+  const rain = u.map((v) => censoredToPhysical(v + 0.2, 0.7))
+  const base: DownscaleMemberInput = { coarse: gust, nx: side, ny: side, factor: b, kernel: 'matern32', samples: 10, seed: 3, spacingKm: 8, transform: 'none' }
+  const coherence = { leadIndex: 3, leadHours: [0, 6, 12, 18], timeScaleHours: 12, noiseSeed: 5 }
+  const ratios: Record<string, number[]> = { boxcox: [], censored: [], coherence: [] }
+  let basicMs = 0, boxReport: PhysicalMeanReport | undefined, rainReport: PhysicalMeanReport | undefined
+  for (let r = 0; r < repeats; r++) {
+    const [, tBasicGust] = timed(() => sampleMember(base))
+    const [box, tBox] = timed(() => sampleMember({ ...base, transform: 'boxcox' }))
+    const [, tBasicRain] = timed(() => sampleMember({ ...base, coarse: rain }))
+    const [cens, tCens] = timed(() => sampleMember({ ...base, coarse: rain, transform: 'censored' }))
+    const [, tBasic2] = timed(() => sampleMember(base))
+    const [, tCoh] = timed(() => sampleMember({ ...base, timeCoherence: coherence }))
+    ratios.boxcox!.push(tBox / tBasicGust); ratios.censored!.push(tCens / tBasicRain); ratios.coherence!.push(tCoh / tBasic2)
+    basicMs = tBasicGust
+    boxReport = box.diagnostics.physicalMeans as PhysicalMeanReport
+    rainReport = cens.diagnostics.physicalMeans as PhysicalMeanReport
+  }
+  out[`${label}_basicMemberSeconds`] = round(basicMs / 1000)
+  for (const [k, v] of Object.entries(ratios)) out[`${label}_${k}Ratio`] = round(median(v))
+  out[`${label}_boxcoxRounds`] = boxReport!.iterations
+  out[`${label}_boxcoxMaxShiftInScale`] = round(boxReport!.maxShiftInScale, 4)
+  out[`${label}_censoredRounds`] = rainReport!.iterations
+  out[`${label}_censoredRmsShiftInScale`] = round(rainReport!.rmsShiftInScale, 4)
+  out[`${label}_worstPhysicalRelativeError`] = Math.max(boxReport!.finalRelativeError, rainReport!.finalRelativeError)
+}
+
+/** Inputs of every task of one demo ensemble, basic or with the extensions. */
+function demoInputs(e: DemoEnsemble, factor: number, samples: number, extended: boolean, tau: number): DownscaleMemberInput[] {
+  return e.fields.map((coarse, k) => {
+    const lead = Math.floor(k / e.members), member = k % e.members
+    const input: DownscaleMemberInput = { coarse, nx: e.nx, ny: e.ny, factor, kernel: 'auto', samples, seed: taskSeed(1, lead, member), spacingKm: 10 }
+    if (!extended) return input
+    return { ...input, standardName: e.standardName, transform: 'auto', timeCoherence: { leadIndex: lead, leadHours: e.forecastPeriodsHours, timeScaleHours: tau, noiseSeed: memberNoiseSeed(1, member) } }
+  })
+}
+
+async function demoCase(sizeName: 'full' | 'small', out: Figures): Promise<void> {
+  const size = DEMO_SIZES[sizeName]
+  const ensembles = synthesiseDemoEnsembles({ members: size.members, leadTimes: size.leadTimes })
+  const pool = new ThreadPool(Math.max(1, availableParallelism()))
+  let basic = 0, extended = 0, worst = 0
+  const run = async (inputs: DownscaleMemberInput[]): Promise<[DownscaleMemberOutput[], number]> => {
+    const t = performance.now()
+    const outputs = await Promise.all(inputs.map((i) => pool.run(i)))
+    return [outputs, (performance.now() - t) / 1000]
+  }
+  for (const e of ensembles) {
+    const byLead = Array.from({ length: e.leadTimes.length }, (_, t) => e.fields.slice(t * e.members, (t + 1) * e.members))
+    const tau = fitTimeScale(byLead, e.forecastPeriodsHours).timeScaleHours
+    const [, tb] = await run(demoInputs(e, size.factor, size.samplesPerMember, false, tau))
+    const [outs, te] = await run(demoInputs(e, size.factor, size.samplesPerMember, true, tau))
+    basic += tb; extended += te
+    for (const o of outs) worst = Math.max(worst, o.blockMeanError)
+    out[`demo_${e.variable}_transform`] = outs[0]!.fit.transform.name
+    out[`demo_${e.variable}_tauHours`] = round(tau, 1)
+    out[`demo_${e.variable}_ratio`] = round(te / tb)
+  }
+  await pool.close()
+  out.demoSize = sizeName
+  out.demoBasicSeconds = round(basic, 1)
+  out.demoExtendedSeconds = round(extended, 1)
+  out.demoExtendedRatio = round(extended / basic)
+  out.demoWorstBlockMeanError = worst
+}
+
+export async function bench(): Promise<Figures> {
+  const figures: Figures = {}
+  memberCase(64, 3, figures)
+  memberCase(128, 1, figures)
+  const demo = (process.env.TESSERA_EXT2_DEMO ?? 'small') as 'full' | 'small' | 'off'
+  if (demo !== 'off') await demoCase(demo, figures)
+  console.table(figures)
+  return figures
+}
