@@ -9,7 +9,7 @@ import land110m from 'world-atlas/land-110m.json'
 import { SEREVAN_COAST } from '../../shared/demo/region'
 import type { BriefingFigure } from '../../shared/schemas/briefings'
 import type { ImageLine } from './productImage'
-import { renderProductImage, type ProductLegend } from './products'
+import { pictureLines, renderProductImage, type ProductLegend } from './products'
 import { leadSamples, runPlacement, type RunRow } from './runSamples'
 
 type Ring = [number, number][]
@@ -55,28 +55,26 @@ export interface RenderedFigure {
 }
 
 const LAND: ImageLine['colour'] = [86, 95, 103, 255]
-const GRID: ImageLine['colour'] = [110, 120, 128, 200]
 const HALO: ImageLine['colour'] = [255, 255, 255, 230]
-const AREA: ImageLine['colour'] = [14, 24, 36, 255]
 
 /** One figure as a PNG (about 2 pixels per fine cell, at most 1024 wide) with its legend. */
 export async function renderBriefingFigure(run: RunRow, figure: BriefingFigure, areas: FigureArea[], width = 900): Promise<RenderedFigure> {
   const placement = runPlacement(run)
   const entry = await leadSamples(run, figure.leadIndex)
   const coast = ringsNear(worldLandRings(), placement.bounds)
+  const areaRings = areas.flatMap((a) => a.geometry.coordinates.flatMap((poly) => poly as Ring[]))
   const lines: ImageLine[] = [
     { lines: coast, colour: LAND, widthPx: 1.5 },
-    ...(run.isDemo ? [{ lines: [SEREVAN_COAST], colour: LAND, widthPx: 2 }] : []),
-    { lines: [placement.outline], colour: GRID, widthPx: 1 },
     // A white halo under each area outline keeps it readable on every class colour.
-    { lines: areas.flatMap((a) => a.geometry.coordinates.flatMap((poly) => poly as Ring[])), colour: HALO, widthPx: 5 },
-    { lines: areas.flatMap((a) => a.geometry.coordinates.flatMap((poly) => poly as Ring[])), colour: AREA, widthPx: 2.5 },
+    { lines: areaRings, colour: HALO, widthPx: 5 },
+    // The workspace's own picture lines: invented coast (demo runs), grid outline, area outlines.
+    ...pictureLines(placement, areas as { geometry: { coordinates: number[][][][] } }[], run.isDemo ? SEREVAN_COAST : undefined),
   ]
   const image = renderProductImage(run, entry, placement, {
     product: figure.product, threshold: figure.threshold, direction: figure.direction, radiusKm: figure.radiusKm,
   }, { width, boundaries: true, background: [255, 255, 255], lines })
   const basemapNote = run.isDemo
-    ? 'Grey line: the invented demo coastline. Dark outlines: the briefing\'s areas. Thin grey frame: the forecast grid.'
-    : 'Grey lines: coastlines (world land at 1:110 million). Dark outlines: the briefing\'s areas. Thin grey frame: the forecast grid.'
+    ? 'Dark grey line: the invented demo coastline. Black outlines: the briefing\'s areas. Teal frame: the forecast grid.'
+    : 'Grey lines: coastlines (world land at 1:110 million). Black outlines: the briefing\'s areas. Teal frame: the forecast grid.'
   return { png: image.png, width: image.frame.width, height: image.frame.height, legend: image.legend, basemapNote }
 }

@@ -121,17 +121,20 @@ function keyStatements(b: BriefingRow): Node[] {
   // An area's heading stays with its table (short tables are kept on one page).
   for (const [, list] of byArea) out.push({ stack: [{ text: list[0]!.areaName, style: 'h3' }, statementRows(list, b.likelihoodScale)], unbreakable: list.length <= 4 })
   const scale = LIKELIHOOD_SCALES[isLikelihoodScaleKey(b.likelihoodScale) ? b.likelihoodScale : DEFAULT_LIKELIHOOD_SCALE]
-  out.push(
-    { text: `Likelihood scale used in this briefing: ${scale.name.toLowerCase()}`, style: 'h3' },
-    {
-      table: { headerRows: 1, widths: [150, 90], body: [[{ text: 'Words', bold: true }, { text: 'Probability', bold: true }], ...scale.bands.map((band) => [band.words, bandRangeText(band)])] },
-      layout: { hLineColor: RULE, vLineColor: RULE, hLineWidth: () => 0.5, vLineWidth: () => 0.5 },
-    },
-    {
-      text: 'A value on a boundary belongs to the higher band. "Share of the area" statements give the expected fraction of the area affected, which is not a probability, so they are described in words of extent (small patches, parts, much, most).',
-      fontSize: 9, color: MIST, margin: [0, 4, 0, 10],
-    },
-  )
+  out.push({
+    unbreakable: true,
+    stack: [
+      { text: `Likelihood scale used in this briefing: ${scale.name.toLowerCase()}`, style: 'h3' },
+      {
+        table: { headerRows: 1, widths: [150, 90], body: [[{ text: 'Words', bold: true }, { text: 'Probability', bold: true }], ...scale.bands.map((band) => [band.words, bandRangeText(band)])] },
+        layout: { hLineColor: RULE, vLineColor: RULE, hLineWidth: () => 0.5, vLineWidth: () => 0.5 },
+      },
+      {
+        text: 'A value on a boundary belongs to the higher band. "Share of the area" statements give the expected fraction of the area affected, which is not a probability, so they are described in words of extent (small patches, parts, much, most).',
+        fontSize: 9, color: MIST, margin: [0, 4, 0, 10],
+      },
+    ],
+  })
   return out
 }
 
