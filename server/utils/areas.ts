@@ -209,8 +209,11 @@ export function demoAreaInputs(): { name: string; tags: string[]; input: Pick<Cr
  * Adds the demo areas once (the audit entry 'area.seed_demo' records that it happened, so areas
  * deleted later are not brought back). Safe under concurrent callers (advisory lock).
  */
+let demoAreasChecked = false
+
 export async function ensureDemoAreas(db: Database = useDB()): Promise<number> {
-  return db.transaction(async (tx) => {
+  if (demoAreasChecked) return 0
+  const added = await db.transaction(async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext('tessera.demo_areas'))`)
     const done = await tx.execute(sql`select 1 from audit_log where action = 'area.seed_demo' limit 1`)
     if (done.rows.length) return 0
@@ -226,4 +229,6 @@ export async function ensureDemoAreas(db: Database = useDB()): Promise<number> {
     await recordAudit({ actor: null, action: 'area.seed_demo', entityType: 'area', after: { ids } }, undefined, tx)
     return ids.length
   })
+  demoAreasChecked = true
+  return added
 }
