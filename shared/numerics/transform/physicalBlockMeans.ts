@@ -15,7 +15,7 @@
  *     (pushing it below), and a wet block whose sample is entirely dry gets the step that lifts its
  *     highest cell to h⁻¹(y).
  *  2. Exact finish (per block): the uniform latent shift δ_I with mean h(g + δ_I) = y_I (a monotone
- *     equation: safeguarded Newton), then a rescaling by y/mean (a factor within ~1e-13 of 1) so the
+ *     equation: safeguarded Newton, to 1e-6), then a rescaling by y/mean (a factor within 1e-6 of 1) so the
  *     block mean is y to rounding; dry blocks are set to 0. A shift, not a rescaling, because it keeps
  *     the censored model's meaning: a near-dry block becomes mostly dry, not uniformly drizzly.
  * Afterwards every block mean equals y to rounding (≈1e-15 relative). The shifts are steps at block
@@ -47,7 +47,7 @@ export interface PhysicalMeanReport {
   maxShiftInScale: number
   /** Root-mean-square δ over the wet blocks of all samples, over latentScale. */
   rmsShiftInScale: number
-  /** Largest |factor − 1| of the rescaling after the shift (rounding level). */
+  /** Largest |factor − 1| of the rescaling after the shift (≤ 1e-6). */
   maxRescale: number
   /** Share of the dry blocks' fine cells that were wet in the latent sample after the rounds (set to 0). */
   forcedDryFraction: number
@@ -96,14 +96,19 @@ export function restorePhysicalBlockMeans(
   for (const y of physical) if (y > 0) { wetSum += y; wetCount++ }
   const typical = wetCount > 0 ? wetSum / wetCount : 1
   let fields = latent
+  // Each round's block statistics, kept so the exact finish starts from the last ones without a new pass.
+  const stats = latent.map(() => ({ meanX: new Float64Array(m), meanSlope: new Float64Array(m), maxG: new Float64Array(m), minG: new Float64Array(m) }))
+  let previous = Infinity
   for (let round = 0; ; round++) {
     let worst = 0
     const changes = fields.map(() => new Float64Array(m))
     fields.forEach((g, s) => {
+      const kept = stats[s]!
       for (let J = 0; J < ny; J++) for (let I = 0; I < nx; I++) {
         const k = J * nx + I, y = physical[k]!
         if (!Number.isFinite(y)) continue
         const st = blockStats(g, grid, I, J, h)
+        kept.meanX[k] = st.meanX; kept.meanSlope[k] = st.meanSlope; kept.maxG[k] = st.maxG; kept.minG[k] = st.minG
         let step: number
         if (h.censored && y === 0) {
           step = st.maxG > 0 ? -st.maxG : 0
@@ -116,7 +121,10 @@ export function restorePhysicalBlockMeans(
     })
     if (round === 0) report.initialRelativeError = worst
     report.iteratedRelativeError = worst
-    if (worst <= tolerance || round >= maxIterations) break
+    // Stop when close enough, out of rounds, or when the last round gained less than 30 %
+    // (shared rounds level off once only the samples' own fluctuations are left).
+    if (worst <= tolerance || round >= maxIterations || worst > 0.7 * previous) break
+    previous = worst
     if (options.shared ?? true) {
       const common = new Float64Array(m)
       for (const c of changes) for (let k = 0; k < m; k++) common[k]! += c[k]! / changes.length
@@ -128,17 +136,18 @@ export function restorePhysicalBlockMeans(
     report.iterations = round + 1
   }
   let forced = 0, dryCells = 0, shiftSquares = 0, shifted = 0
-  const samples = fields.map((g) => {
-    const x = new Float64Array(g.length)
+  const samples = fields.map((g, s) => {
+    const x = new Float64Array(g.length), kept = stats[s]!
     for (let J = 0; J < ny; J++) for (let I = 0; I < nx; I++) {
-      const y = physical[J * nx + I]!
+      const k = J * nx + I, y = physical[k]!
       if (!Number.isFinite(y)) { forEachCell(grid, I, J, (c) => { x[c] = h.toPhysical(g[c]!) }); continue }
       if (h.censored && y === 0) {
         dryCells += b * b
         forEachCell(grid, I, J, (c) => { if (g[c]! > 0) forced++ })
         continue // x is already 0 there
       }
-      const { delta, meanX } = shiftToMean(g, x, grid, I, J, h, y)
+      const start = { meanX: kept.meanX[k]!, meanSlope: kept.meanSlope[k]!, maxG: kept.maxG[k]!, minG: kept.minG[k]! }
+      const { delta, meanX } = shiftToMean(g, x, grid, I, J, h, y, start)
       report.maxShift = Math.max(report.maxShift, Math.abs(delta))
       shiftSquares += delta * delta; shifted++
       const factorY = y / meanX
@@ -165,16 +174,16 @@ function forEachCell(grid: BlockGrid, I: number, J: number, f: (cell: number) =>
 
 /**
  * Writes h(g + δ) to block (I, J) of x for the uniform latent shift δ that brings its mean to y > 0
- * (to 1e-9 relative; the caller's rescaling does the rest), and returns δ and that mean.
+ * (to FINISH_TOLERANCE relative; the caller's rescaling does the rest), and returns δ and that mean.
  * F(δ) = mean h(g + δ) − y increases from −y (δ → −∞) to ∞: Newton steps inside a bracket,
- * bisection when a step leaves it.
+ * bisection when a step leaves it. `start` holds the block's statistics at δ = 0.
  */
-function shiftToMean(g: Float64Array, x: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform, y: number): { delta: number; meanX: number } {
-  let lo = -Infinity, hi = Infinity, delta = 0
-  let st = blockStats(g, grid, I, J, h, 0, x)
+function shiftToMean(g: Float64Array, x: Float64Array, grid: BlockGrid, I: number, J: number, h: LatentTransform, y: number, start: BlockStats): { delta: number; meanX: number } {
+  let lo = -Infinity, hi = Infinity, delta = 0, written = false
+  let st = start
   let f = st.meanX - y
   const span = Math.max(1, st.maxG - st.minG)
-  for (let iteration = 0; iteration < 200 && !(Math.abs(f) <= 1e-9 * y); iteration++) {
+  for (let iteration = 0; iteration < 200 && !(Math.abs(f) <= FINISH_TOLERANCE * y); iteration++) {
     if (f < 0) lo = delta; else hi = delta
     let next = st.meanSlope > 0 ? delta - f / st.meanSlope : NaN
     if (!(next > lo && next < hi)) {
@@ -185,10 +194,15 @@ function shiftToMean(g: Float64Array, x: Float64Array, grid: BlockGrid, I: numbe
     if (next === delta) break
     delta = next
     st = blockStats(g, grid, I, J, h, delta, x)
+    written = true
     f = st.meanX - y
   }
+  if (!written) st = blockStats(g, grid, I, J, h, delta, x)
   return { delta, meanX: st.meanX }
 }
+
+/** Relative accuracy of the finish's shift; the rescaling after it (a factor within this of 1) makes the mean exact. */
+const FINISH_TOLERANCE = 1e-6
 
 /** Largest relative |block mean − y| over wet blocks (absolute for y = 0 blocks). */
 function finalError(samples: Float64Array[], physical: Float64Array, grid: BlockGrid): number {
