@@ -181,6 +181,20 @@ describe('member pipeline options (off by default)', () => {
     expect(windows.samples.map((s) => Array.from(s))).toEqual(plain.samples.map((s) => Array.from(s)))
   })
 
+  it('with a Box–Cox transform (re-conditioning through the windows) and with time-coherent noise (one stream per window)', () => {
+    const coarse = blockAverage(regimeTruth(c, 400), 128, 128, 4)
+    const boxcox = sampleMember({ ...base, samples: 2, coarse, regimes: 'windows', transform: 'boxcox' })
+    expect(boxcox.fit.regimes!.used).toBe(true)
+    expect(boxcox.blockMeanError).toBeLessThan(1e-6 * Math.max(...coarse)) // the physical-mean tolerance
+    const coherence = { leadIndex: 1, leadHours: [0, 6], timeScaleHours: 12, noiseSeed: 5 }
+    const stationary = blockAverage(regimeTruth({ ...c, stationary: true }, 300), 128, 128, 4)
+    const coherent = sampleMember({ ...base, samples: 2, coarse: stationary, regimes: 'windows', timeCoherence: coherence })
+    // No window departs, but with time coherence the windowed sampler is kept so every lead's noise is organised alike.
+    expect(coherent.fit.regimes!.used).toBe(true)
+    expect(coherent.fit.regimes!.departures).toBe(0)
+    expect(coherent.blockMeanError).toBeLessThan(1e-9)
+  })
+
   it("anisotropy 'fit' on an anisotropic field: adopted, used by the sampler, block means exact", () => {
     const n = 32, b = 4
     const d = createDownscaler({ coarse: new Float64Array(n * n), nx: n, ny: n, factor: b, kernel: { kernel: 'matern32', lengthScale: 12, variance: 1, anisotropy: { ratio: 0.4, angle: 1 } }, mean: 0 })
