@@ -1,9 +1,11 @@
 /**
  * Method check: how good is the downscaling where the fine truth is known? The truth (row-major
- * nx×ny, index j·nx + i, complete) is averaged over b×b blocks (the model's operator A), the prior is
- * fitted to that coarse field alone by maximum likelihood (fit/fitCoarse.ts, with the forecast runs'
- * cap on ℓ) or taken as given, the posterior mean, pointwise std and N conditional samples are drawn
- * by conditioning by kriging (grf/downscaler.ts), and all of them, together with interpolation
+ * nx×ny, index j·nx + i, complete) is averaged over b×b blocks (the model's operator A) and that coarse
+ * field is downscaled exactly as a forecast run's member is (pipeline/downscaleMember.ts sampleMember:
+ * maximum-likelihood fit on the coarse field alone, the runs' cap on ℓ, conditioning by kriging), or with
+ * a given prior (grf/downscaler.ts); the posterior mean and pointwise std come from the same Gaussian
+ * model (when the member pipeline used a latent transform or windowed regimes, the mean of the samples
+ * stands in for the mean and the posterior scores are left out). All of them, together with interpolation
  * baselines of the same coarse field (interp/upsample.ts: block-constant, bilinear and bicubic, the
  * latter two also with block means kept), are scored against the truth: MSE, MAE, fair CRPS (Ferro
  * 2014), FSS per neighbourhood (Roberts & Lean 2008), Brier with Murphy's (1973) decomposition, rank
@@ -14,7 +16,7 @@ import { ensembleMean, ensembleSpread } from '../ensemble/moments'
 import { eventField, exceedanceProbability } from '../ensemble/exceedance'
 import { sortByPixel } from '../ensemble/sortedStack'
 import type { EnsembleStack } from '../ensemble/stack'
-import { defaultLengthScaleBounds, fitCoarseField } from '../fit/fitCoarse'
+import { kernelParamsOf } from '../fit/fitCoarse'
 import { blockMeans, createDownscaler } from '../grf/downscaler'
 import type { KernelParams } from '../grf/kernels'
 import { blockAverage } from '../interp/blockAverage'
@@ -29,7 +31,7 @@ import { radialSpectrum, type RadialSpectrum } from '../verify/radialSpectrum'
 import { rankHistogram } from '../verify/rankHistogram'
 import { agreementLimit, bandPowerRatio, spectrumRatio } from '../verify/spectrumAgreement'
 import { meanSquaredError } from '../verify/squaredError'
-import { DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS } from './downscaleMember'
+import { sampleMember } from './downscaleMember'
 import { summariseMethodCheck } from './methodCheckSummary'
 import {
   METHOD_CHECK_REPORT_VERSION, type ForecastScores, type MethodCheckHeadline, type MethodCheckProgress,
@@ -104,29 +106,27 @@ export function runMethodCheck(input: MethodCheckInput, onProgress: MethodCheckP
   onProgress(0.02, 'coarse-graining the truth')
   const coarse = blockAverage(truth, nx, ny, b)
 
-  onProgress(0.05, 'fitting the prior to the coarse field')
-  const { kernel, mean: priorMean, fit } = priorFor(coarse, cnx, cny, settings, spacing)
-  const downscaler = createDownscaler({ coarse, nx: cnx, ny: cny, factor: b, kernel, mean: priorMean })
-  onProgress(0.3, 'posterior mean')
-  const mean = downscaler.mean()
-  onProgress(0.35, `drawing ${settings.samples} conditional samples`)
-  const samples = downscaler.samples(settings.samples, settings.seed)
-  onProgress(0.65, 'posterior standard deviation')
-  const std = downscaler.std()
+  onProgress(0.05, `fitting the prior and drawing ${settings.samples} conditional samples`)
+  const model = downscaleCoarse(coarse, cnx, cny, settings, spacing)
+  const { samples, fit } = model
+  onProgress(0.5, 'posterior mean')
+  const mean = model.mean()
+  onProgress(0.55, 'posterior standard deviation')
+  const std = model.std()
   onProgress(0.75, 'interpolation baselines')
   const baselines = BASELINES.map((bl) => ({ ...bl, field: upsample(coarse, cnx, cny, b, { method: bl.method, preserveBlockMeans: bl.preserve }) }))
 
   onProgress(0.8, 'scoring')
   const thresholdValues = settings.thresholds.values.map((v) => (settings.thresholds.kind === 'percentile' ? percentileThreshold(truth, v) : v))
   const ctx = scoringContext(truth, nx, ny, coarse, b, thresholdValues, settings.neighbourhoods, spacing)
-  const meanScores = scoreField(ctx, { id: 'mean', label: 'Posterior mean', kind: 'mean', preservesBlockMeans: true }, mean)
+  const meanScores = scoreField(ctx, { id: 'mean', label: std ? 'Posterior mean' : 'Mean of the samples', kind: 'mean', preservesBlockMeans: true }, mean)
   const sampleScores = samples.map((s, k) => scoreField(ctx, { id: `sample-${k + 1}`, label: `Sample ${k + 1}`, kind: 'sample', preservesBlockMeans: true }, s))
   const stack: EnsembleStack = { nx, ny, members: samples }
   const ens = scoreEnsemble(ctx, stack, settings.seed)
   const baselineScores = baselines.map((bl) => scoreField(ctx, { id: bl.id, label: bl.label, kind: 'baseline', method: bl.method, preservesBlockMeans: bl.preserve }, bl.field))
 
   onProgress(0.95, 'spectra and summary')
-  const posterior = posteriorScores(truth, mean, std)
+  const posterior = std ? posteriorScores(truth, mean, std) : { meanVariance: null, standardisedErrorVariance: null, gaussianCrps: null }
   const sampleSpectra = samples.map((s) => ctx.spectrum(s).power)
   const sampleMeanPower = Float64Array.from(ctx.truthSpectrum.power, (_, r) => sampleSpectra.reduce((acc, p) => acc + p[r]!, 0) / sampleSpectra.length)
   ens.scores.subgridPowerRatio = finiteOrNull(ctx.subgridShare(sampleMeanPower))
@@ -139,7 +139,7 @@ export function runMethodCheck(input: MethodCheckInput, onProgress: MethodCheckP
   ]
   const limit = agreementLimit(spectrumRatio(sampleMeanPower, ctx.truthSpectrum.power), SPECTRUM_AGREEMENT_FACTOR)
   const wn = ctx.truthSpectrum.wavenumber
-  const d = downscaler.diagnostics
+  const d = model.diagnostics
 
   const report: Omit<MethodCheckReport, 'summary' | 'headline'> = {
     version: METHOD_CHECK_REPORT_VERSION,
@@ -151,7 +151,10 @@ export function runMethodCheck(input: MethodCheckInput, onProgress: MethodCheckP
     },
     truth: fieldStats(truth),
     fit,
-    engine: { solver: d.solver, blockMeanError: d.blockMeanError, addedNugget: d.addedNugget, stdMethod: d.stdMethod ?? null, stdErrorBound: d.stdErrorBound ?? null },
+    engine: {
+      solver: String(d.solver ?? 'unknown'), blockMeanError: Math.max(Number(d.blockMeanError ?? 0), ens.scores.blockMeanError), addedNugget: Number(d.addedNugget ?? 0),
+      stdMethod: typeof d.stdMethod === 'string' ? d.stdMethod : null, stdErrorBound: typeof d.stdErrorBound === 'number' ? d.stdErrorBound : null,
+    },
     thresholds: thresholdValues.map((value, t) => ({
       value, percentile: settings.thresholds.kind === 'percentile' ? settings.thresholds.values[t]! : null,
       baseRate: ctx.baseRates[t]!, useful: fssUsefulLevel(ctx.baseRates[t]!),
@@ -191,29 +194,54 @@ function cropTruth(values: ArrayLike<number>, fullNx: number, nx: number, ny: nu
   return out
 }
 
-function priorFor(coarse: Float64Array, cnx: number, cny: number, s: MethodCheckSettings, spacing: number | undefined): { kernel: KernelParams; mean: number; fit: MethodCheckReport['fit'] } {
+interface CoarseDownscaling {
+  samples: Float64Array[]
+  /** The posterior mean (or the mean of the samples when the model is not a single Gaussian field). */
+  mean: () => Float64Array
+  /** Pointwise posterior std, or null when the model is not a single Gaussian field. */
+  std: () => Float64Array | null
+  fit: MethodCheckReport['fit']
+  diagnostics: Record<string, unknown>
+}
+
+/**
+ * Downscales the coarse field: with the given prior, or as a forecast run's member (sampleMember, the
+ * same inputs the worker's tasks pass), whose fitted prior then gives the posterior mean and std.
+ */
+function downscaleCoarse(coarse: Float64Array, cnx: number, cny: number, s: MethodCheckSettings, spacing: number | undefined): CoarseDownscaling {
   const km = (cells: number) => (spacing ? cells * spacing : null)
+  const gaussian = (kernel: KernelParams, mean: number) => createDownscaler({ coarse, nx: cnx, ny: cny, factor: s.factor, kernel, mean })
   if (s.givenKernel) {
     const g = s.givenKernel
     const mean = g.mean ?? coarse.reduce((a, v) => a + v, 0) / coarse.length
+    const d = gaussian({ kernel: g.kernel, lengthScale: g.lengthScale, variance: g.variance }, mean)
     return {
-      kernel: { kernel: g.kernel, lengthScale: g.lengthScale, variance: g.variance }, mean,
+      samples: d.samples(s.samples, s.seed), mean: () => d.mean(), std: () => d.std(),
+      diagnostics: d.diagnostics as unknown as Record<string, unknown>,
       fit: {
         source: 'given', kernel: g.kernel, lengthScale: g.lengthScale, lengthScaleKm: km(g.lengthScale), lengthScaleInterval: null,
-        variance: g.variance, mean, atBound: null, method: null, logLikelihood: null, lengthScaleCap: null,
+        variance: g.variance, mean, atBound: null, method: null, logLikelihood: null, lengthScaleCap: null, transform: null,
       },
     }
   }
-  // The same search interval as a forecast run's members (pipeline/downscaleMember.ts).
-  const [lower, upper] = defaultLengthScaleBounds(cnx, cny, s.factor)
-  const cap = (s.maxLengthScaleCoarseCells ?? DEFAULT_MAX_LENGTH_SCALE_COARSE_CELLS) * s.factor
-  const bounds: [number, number] = [lower, Math.max(lower * 2, Math.min(upper, cap))]
-  const f = fitCoarseField(coarse, cnx, cny, { factor: s.factor, kernel: s.kernel, lengthScaleBounds: bounds })
+  const member = sampleMember({
+    coarse, nx: cnx, ny: cny, factor: s.factor, kernel: s.kernel, samples: s.samples, seed: s.seed,
+    spacingKm: (spacing ?? 1) * s.factor, ...(s.maxLengthScaleCoarseCells !== undefined ? { maxLengthScaleCoarseCells: s.maxLengthScaleCoarseCells } : {}),
+  })
+  const f = member.fit
+  const transform = f.transform.name === 'none' ? null : f.transform.name
+  // The member's own model: the fitted prior's smooth part, as its sampler used (downscaleMember.ts).
+  const d = !transform && !f.regimes?.used ? gaussian(kernelParamsOf({ ...f, profile: [] }, false), f.mean) : null
+  const samples = member.samples
   return {
-    kernel: { kernel: f.kernel, lengthScale: f.lengthScale, variance: f.variance, nu: f.nu }, mean: f.mean,
+    samples,
+    mean: () => (d ? d.mean() : ensembleMean({ nx: cnx * s.factor, ny: cny * s.factor, members: samples })),
+    std: () => (d ? d.std() : null),
+    diagnostics: d ? { ...member.diagnostics, ...(d.diagnostics as unknown as Record<string, unknown>) } : member.diagnostics,
     fit: {
       source: 'fitted', kernel: f.kernel, lengthScale: f.lengthScale, lengthScaleKm: km(f.lengthScale), lengthScaleInterval: f.lengthScaleInterval,
-      variance: f.variance, mean: f.mean, atBound: f.atBound, method: f.method, logLikelihood: f.logLikelihood, lengthScaleCap: bounds[1],
+      variance: f.variance, mean: f.mean, atBound: f.atBound, method: f.method, logLikelihood: f.logLikelihood,
+      lengthScaleCap: f.lengthScaleBounds[1], transform,
     },
   }
 }

@@ -108,6 +108,8 @@ export interface MethodCheckReport {
     logLikelihood: number | null
     /** The upper end of the ℓ search (fine cells), when fitted. */
     lengthScaleCap: number | null
+    /** Latent transform the member pipeline applied (e.g. 'boxcox'), null when none. */
+    transform: string | null
   }
   engine: { solver: string; blockMeanError: number; addedNugget: number; stdMethod: string | null; stdErrorBound: number | null }
   thresholds: { value: number; percentile: number | null; baseRate: number; useful: number }[]
@@ -129,14 +131,14 @@ export interface MethodCheckReport {
     /** Reliability diagram points per threshold: forecast probability k/N, cells, observed frequency. */
     reliability: { probability: number; count: number; observedFrequency: number }[][]
   }
-  /** The Gaussian posterior itself (mean and pointwise std of the conditional distribution). */
+  /** The Gaussian posterior itself (mean and pointwise std of the conditional distribution); null values when the model was not a single Gaussian field. */
   posterior: {
     /** Mean posterior variance over cells (field units²). */
-    meanVariance: number
+    meanVariance: number | null
     /** Mean of ((truth − mean)/std)²: 1 when the posterior is calibrated. */
     standardisedErrorVariance: number | null
     /** CRPS of N(mean, std²) (Gneiting et al. 2005), mean over cells. */
-    gaussianCrps: number
+    gaussianCrps: number | null
   }
   spectrum: {
     wavenumber: number[]

@@ -58,7 +58,8 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
   const ell = `ℓ = ${distance(fit.lengthScale, dx)}`
   if (fit.source === 'given') out.push(`Prior given, not fitted: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${u}.`)
   else {
-    let s = `Prior fitted to the coarse field alone: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${u}.`
+    let s = `Prior fitted to the coarse field alone, as for a forecast run: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${fit.transform ? ` (of the ${fit.transform}-transformed field)` : u}.`
+    if (fit.transform) s += ' The posterior mean is replaced by the mean of the samples, since the model is Gaussian only in the transformed values.'
     if (fit.atBound === 'upper') s += ` ℓ reached the upper end of the search (${distance(fit.lengthScaleCap ?? fit.lengthScale, dx)}): the coarse field asks for longer correlation than the method allows.`
     if (fit.atBound === 'lower') s += ' ℓ reached the lower end of the search: the coarse field looks almost uncorrelated.'
     out.push(s)
@@ -107,7 +108,7 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
   // CRPS.
   const bestAbs = baselines.reduce((p, q) => (q.mae < p.mae ? q : p))
   const crpsChange = ens.crps / bestAbs.mae - 1
-  out.push(`The samples' fair CRPS (${formatNumber(ens.crps)}${u}) is ${percent(Math.abs(crpsChange))} ${crpsChange <= 0 ? 'lower' : 'higher'} than the absolute error of the best interpolation (${nameOf(bestAbs)}, ${formatNumber(bestAbs.mae)}${u}), the CRPS of a single field; the Gaussian posterior itself scores ${formatNumber(r.posterior.gaussianCrps)}${u}.`)
+  out.push(`The samples' fair CRPS (${formatNumber(ens.crps)}${u}) is ${percent(Math.abs(crpsChange))} ${crpsChange <= 0 ? 'lower' : 'higher'} than the absolute error of the best interpolation (${nameOf(bestAbs)}, ${formatNumber(bestAbs.mae)}${u}), the CRPS of a single field${r.posterior.gaussianCrps !== null ? `; the Gaussian posterior itself scores ${formatNumber(r.posterior.gaussianCrps)}${u}` : ''}.`)
 
   // FSS per threshold.
   r.thresholds.forEach((t, ti) => {

@@ -6,6 +6,8 @@ import { describe, expect, it } from 'vitest'
 import { createDownscaler } from '../../../shared/numerics/grf/downscaler'
 import { blockAverage } from '../../../shared/numerics/interp/blockAverage'
 import { runMethodCheck } from '../../../shared/numerics/pipeline/methodCheck'
+import { sampleMember } from '../../../shared/numerics/pipeline/downscaleMember'
+import { meanSquaredError } from '../../../shared/numerics/verify/squaredError'
 import type { MethodCheckReport, MethodCheckSettings } from '../../../shared/numerics/pipeline/methodCheckReport'
 import { summariseMethodCheck } from '../../../shared/numerics/pipeline/methodCheckSummary'
 import { scoreEnsemble } from '../../../shared/numerics/verify/scoreEnsemble'
@@ -78,9 +80,9 @@ describe('method check against a truth drawn from the prior', () => {
       const mean = byId(r, 'mean'), ens = byId(r, 'ensemble')
       // For y ~ N(μ, σ²): E CRPS(N(μ, σ²), y) = σ/√π and E|y − μ| = σ√(2/π) (Gneiting & Raftery 2007, JASA
       // 102:359, §4.2), so their ratio is 1/√2 cell by cell, whatever σ: checked to 2 % over the grid.
-      expect(Math.abs(r.posterior.gaussianCrps / mean.mae - Math.SQRT1_2)).toBeLessThan(0.02)
+      expect(Math.abs(r.posterior.gaussianCrps! / mean.mae - Math.SQRT1_2)).toBeLessThan(0.02)
       // The fair CRPS of samples from that posterior estimates the same CRPS without bias (Ferro 2014).
-      expect(Math.abs(ens.crps / r.posterior.gaussianCrps - 1)).toBeLessThan(0.05)
+      expect(Math.abs(ens.crps / r.posterior.gaussianCrps! - 1)).toBeLessThan(0.05)
       // …and is lower than the absolute error of every single field.
       for (const id of ['mean', ...BASELINE_IDS]) expect(ens.crps).toBeLessThan(byId(r, id).mae)
       // Standardised errors have unit variance; spread–skill ≈ 1 (Fortin et al. 2014); each outer rank
@@ -121,9 +123,14 @@ describe('method check against a truth drawn from the prior', () => {
     expect(r.thresholds[0]!.useful).toBeCloseTo(0.6, 3)
   })
 
-  it('fits the prior on the coarse field when no parameters are given', () => {
+  it('fits the prior on the coarse field when no parameters are given, drawing the samples a forecast run would', () => {
     const r = runMethodCheck({ truth: truths[1]!, nx: N, ny: N, settings: settings({ givenKernel: undefined }) })
     expect(r.fit.source).toBe('fitted')
+    expect(r.fit.transform).toBeNull()
+    // The same coarse field as a run's member (pipeline/downscaleMember.ts, as the worker's tasks call it).
+    const member = sampleMember({ coarse: blockAverage(truths[1]!, N, N, B), nx: COARSE, ny: COARSE, factor: B, kernel: 'matern32', samples: SAMPLES, seed: 9, spacingKm: B })
+    expect(r.samples.map((s) => s.mse)).toEqual(member.samples.map((s) => meanSquaredError(s, truths[1]!)))
+    expect(r.fit.lengthScale).toBe(member.fit.lengthScale)
     expect(r.fit.kernel).toBe('matern32')
     // ℓ from 256 coarse cells: the profile interval must contain the true 6 fine cells.
     expect(r.fit.lengthScaleInterval![0]).toBeLessThan(6)
