@@ -1,3 +1,5 @@
+import { fileURLToPath } from 'node:url'
+
 // Tessera: root-level Nuxt 4 layout (srcDir '.' keeps it so even if an app/ folder appears).
 export default defineNuxtConfig({
   srcDir: '.',
@@ -30,6 +32,8 @@ export default defineNuxtConfig({
     public: { demoMode: false },
   },
   nitro: {
+    // The PDF fonts travel inside the build (pdfmake needs full TTFs; see server/utils/pdfFonts.ts).
+    serverAssets: [{ baseName: 'fonts', dir: fileURLToPath(new URL('./node_modules/@expo-google-fonts/atkinson-hyperlegible', import.meta.url)), pattern: '**/*.ttf' }],
     // Node-only packages used by server code: keep them external instead of bundling.
     externals: { external: ['pg', 'pg-boss', 'h5wasm', 'netcdfjs', 'geotiff', 'pdfmake'] },
   },
