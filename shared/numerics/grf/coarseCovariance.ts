@@ -20,6 +20,8 @@ export interface CoarseSolver {
   readonly method: 'kronecker' | 'dense' | 'pcg'
   /** Set when the solver changed route on its own (e.g. a PCG that fell back to dense Cholesky). */
   readonly note?: string
+  /** For PCG: the preconditioner in use, e.g. 'edge (strips 12/12, corners 6)' or 'torus'. */
+  readonly preconditioner?: string
   solve(rhs: Float64Array[]): CoarseSolveResult
 }
 

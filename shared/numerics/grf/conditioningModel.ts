@@ -202,8 +202,12 @@ function chooseSolver(
 /** PCG that switches, once and for good, to the dense Cholesky if an iteration fails to converge. */
 function withDenseFallback(pcg: PcgCoarseSolver, covariance: CoarseCovariance): CoarseSolver {
   let dense: DenseCoarseSolver | undefined
-  const wrapper: { method: 'pcg' | 'dense'; note?: string; solve: CoarseSolver['solve'] } = {
+  let denseNote: string | undefined
+  const wrapper: { method: 'pcg' | 'dense'; readonly note?: string; readonly preconditioner?: string; solve: CoarseSolver['solve'] } = {
     method: 'pcg',
+    // The PCG's own note (a preconditioner switch) until the dense route takes over.
+    get note() { return denseNote ?? pcg.note },
+    get preconditioner() { return dense ? undefined : pcg.preconditioner },
     solve(rhs) {
       if (dense) return dense.solve(rhs)
       try {
@@ -211,7 +215,7 @@ function withDenseFallback(pcg: PcgCoarseSolver, covariance: CoarseCovariance): 
       } catch (err) {
         dense = new DenseCoarseSolver(covariance)
         wrapper.method = 'dense'
-        wrapper.note = `PCG failed (${(err as Error).message}); switched to dense Cholesky`
+        denseNote = `PCG failed (${(err as Error).message}); switched to dense Cholesky`
         return dense.solve(rhs)
       }
     },

@@ -25,6 +25,8 @@ export interface PcgResult {
   converged: boolean
   /** True when a system was abandoned because its residual stopped falling. */
   stagnated: boolean
+  /** True when a system was abandoned because rᵀ·M·r or pᵀ·A·p was not positive (a preconditioner or operator that is not positive definite). */
+  breakdown: boolean
 }
 
 function dot(a: Float64Array, b: Float64Array): number {
@@ -45,7 +47,7 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
   const active = bNorm.map((v) => v > 0)
   const converged = active.map((a) => !a)
   const history: number[][] = rhs.map(() => [])
-  let stagnated = false
+  let stagnated = false, breakdown = false
   precondition(r, z)
   const rz = r.map((rj, j) => dot(rj, z[j]!))
   for (let j = 0; j < count; j++) p[j]!.set(z[j]!)
@@ -56,7 +58,9 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
     for (let j = 0; j < count; j++) {
       if (!active[j]) continue
       const pj = p[j]!, qj = q[j]!, xj = x[j]!, rj = r[j]!
-      const alpha = rz[j]! / dot(pj, qj)
+      const curvature = dot(pj, qj)
+      if (!(curvature > 0)) { active[j] = false; breakdown = true; p[j]!.fill(0); continue }
+      const alpha = rz[j]! / curvature
       for (let k = 0; k < n; k++) { xj[k]! += alpha * pj[k]!; rj[k]! -= alpha * qj[k]! }
       const norm = Math.sqrt(dot(rj, rj))
       if (norm <= tol * bNorm[j]!) { active[j] = false; converged[j] = true; p[j]!.fill(0); continue }
@@ -73,6 +77,7 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
     for (let j = 0; j < count; j++) {
       if (!active[j]) continue
       const rzNew = dot(r[j]!, z[j]!)
+      if (!(rzNew > 0)) { active[j] = false; breakdown = true; p[j]!.fill(0); continue }
       const beta = rzNew / rz[j]!
       rz[j] = rzNew
       const pj = p[j]!, zj = z[j]!
@@ -87,5 +92,5 @@ export function pcgBatch(apply: BatchOperator, precondition: BatchOperator, rhs:
     for (let k = 0; k < n; k++) s += (b[k]! - q[j]![k]!) ** 2
     return Math.sqrt(s) / bNorm[j]!
   })
-  return { solutions: x, iterations, relativeResiduals, converged: converged.every(Boolean), stagnated }
+  return { solutions: x, iterations, relativeResiduals, converged: converged.every(Boolean), stagnated, breakdown }
 }
