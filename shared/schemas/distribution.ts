@@ -7,35 +7,40 @@ import { HAZARDS } from './products'
 const name = (what: string, max = 160) => z.string().trim().min(1, `Enter the ${what}.`).max(max, `Use at most ${max} characters.`)
 const description = z.string().trim().max(600, 'Use at most 600 characters.')
 
-export const organisationSchema = z.object({
-  name: name('organisation\'s name'),
-  description: description.default(''),
-  active: z.boolean().default(true),
-})
-export const organisationUpdateSchema = organisationSchema.partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
+// Update schemas are built from the fields without defaults, so an empty change stays empty.
+const organisationFields = { name: name('organisation\'s name'), description, active: z.boolean() }
+export const organisationSchema = z.object({ ...organisationFields, description: description.default(''), active: z.boolean().default(true) })
+export const organisationUpdateSchema = z.object(organisationFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
 
-export const contactSchema = z.object({
+const contactFields = {
   organisationId: z.number().int().positive({ error: 'Choose the organisation.' }),
   name: name('person\'s name', 120),
   email: emailSchema,
   /** A stakeholder account that sees this contact's briefings in the portal. */
-  userId: z.number().int().positive().nullable().default(null),
-  active: z.boolean().default(true),
-})
-export const contactUpdateSchema = contactSchema.partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
+  userId: z.number().int().positive().nullable(),
+  active: z.boolean(),
+}
+export const contactSchema = z.object({ ...contactFields, userId: contactFields.userId.default(null), active: z.boolean().default(true) })
+export const contactUpdateSchema = z.object(contactFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
 export const contactListQuerySchema = z.object({ organisationId: z.coerce.number().int().positive().optional() })
 
 export const LIST_KEY_PATTERN = /^[a-z0-9][a-z0-9-]{1,78}$/
-export const distributionListSchema = z.object({
-  key: z.string().trim().toLowerCase().regex(LIST_KEY_PATTERN, 'Use 2–79 lower-case letters, digits and hyphens for the key.').optional(),
+const listFields = {
   name: name('list\'s name'),
+  description,
+  organisationId: z.number().int().positive().nullable(),
+  active: z.boolean(),
+  memberIds: z.array(z.number().int().positive()).max(500).transform((l) => [...new Set(l)]),
+}
+export const distributionListSchema = z.object({
+  ...listFields,
+  key: z.string().trim().toLowerCase().regex(LIST_KEY_PATTERN, 'Use 2–79 lower-case letters, digits and hyphens for the key.').optional(),
   description: description.default(''),
-  organisationId: z.number().int().positive().nullable().default(null),
+  organisationId: listFields.organisationId.default(null),
   active: z.boolean().default(true),
-  memberIds: z.array(z.number().int().positive()).max(500).transform((l) => [...new Set(l)]).default([]),
+  memberIds: listFields.memberIds.default([]),
 })
-export const distributionListUpdateSchema = distributionListSchema.omit({ key: true }).partial()
-  .refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
+export const distributionListUpdateSchema = z.object(listFields).partial().refine((v) => Object.keys(v).length > 0, 'Nothing to change.')
 
 /** A list key from a name: "Serevan Grid — line crews" → "serevan-grid-line-crews". */
 export function listKeyFromName(text: string): string {
