@@ -1,5 +1,7 @@
 // Runs one downscaling task end to end: claim, compute on the thread pool, store exactly once.
-import { taskSeed } from '../shared/numerics/pipeline/downscaleMember'
+import { memberNoiseSeed, taskSeed } from '../shared/numerics/pipeline/downscaleMember'
+import { DEFAULT_TIME_SCALE_HOURS } from '../shared/numerics/coherence/fitTimeScale'
+import { leadHoursOf } from '../shared/utils/leadHours'
 import type { ThreadPool } from './threadPool'
 import { claimTask, completeTask, failTask, isRunActive, loadTaskInput } from './taskStore'
 
@@ -20,9 +22,18 @@ export function createTaskRunner({ pool, workerId, owned, log }: TaskRunnerConte
     try {
       const { run, coarse } = await loadTaskInput(taskId)
       const s = run.settings!
+      const leadHours = leadHoursOf(run)
       const output = await pool.run({
         coarse, nx: run.grid.nx, ny: run.grid.ny, factor: s.factor, kernel: s.kernel,
         samples: s.samplesPerMember, seed: taskSeed(s.seed, task.leadIndex, task.memberIndex), spacingKm: run.grid.spacingKm,
+        // Runs started before the extensions existed keep the basic model (no transform, no coherence).
+        standardName: run.standardName ?? undefined,
+        transform: s.transform ?? 'none',
+        anisotropy: s.anisotropy ?? 'off',
+        regimes: s.regimes ?? 'off',
+        timeCoherence: s.timeCoherence && leadHours.length > 1
+          ? { leadIndex: task.leadIndex, leadHours, timeScaleHours: s.timeScaleHours ?? DEFAULT_TIME_SCALE_HOURS, noiseSeed: memberNoiseSeed(s.seed, task.memberIndex) }
+          : undefined,
       })
       if (!(await isRunActive(run.id))) return // cancelled meanwhile: the result is dropped
       const p = output.packed

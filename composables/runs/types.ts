@@ -12,7 +12,11 @@ export type FitMethod = 'exact' | 'kronecker' | 'whittle'
 
 export interface RunGridSummary { nx: number; ny: number; spacingKm: number; dxKm: number; dyKm: number; crs: string }
 
-export interface RunSettings { factor: number; samplesPerMember: number; kernel: KernelChoice; seed: number }
+export interface RunSettings {
+  factor: number; samplesPerMember: number; kernel: KernelChoice; seed: number
+  transform?: 'auto' | 'none' | 'boxcox' | 'log' | 'censored'; anisotropy?: 'off' | 'fit'; regimes?: 'off' | 'windows'
+  timeCoherence?: boolean; timeScaleHours?: number
+}
 
 /** What the reader found in a file: shared by the upload preview and the stored run. */
 export interface RunContents {

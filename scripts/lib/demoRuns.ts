@@ -12,6 +12,9 @@ import { ThreadPool } from '../../worker/threadPool'
 import { createTaskRunner } from '../../worker/runTask'
 import { closeFinishedRuns } from '../../worker/taskStore'
 import type { DownscaleSettings } from '../../server/db/schema/runs'
+import { downscaleSettingsSchema } from '../../shared/schemas/runs'
+import { fitTimeScale } from '../../shared/numerics/coherence/fitTimeScale'
+import { leadHoursOf } from '../../shared/utils/leadHours'
 
 const TITLES: Record<DemoEnsemble['variable'], string> = {
   gust: 'Serevan Coast — gusts (invented demo)',
@@ -48,7 +51,10 @@ export async function seedDemoRuns(opts: DemoRunOptions, log: (m: string) => voi
   for (const e of ensembles) {
     const bytes = toTesseraJson(e)
     const parsed = await readEnsembleFile(bytes, `${e.variable}.json`)
-    const settings: DownscaleSettings = { factor: opts.factor, samplesPerMember: opts.samplesPerMember, kernel: 'auto', seed: 1 }
+    // The defaults a forecaster gets (transform by variable, time-coherent samples), τ from the members.
+    const settings: DownscaleSettings = downscaleSettingsSchema.parse({ factor: opts.factor, samplesPerMember: opts.samplesPerMember, kernel: 'auto', seed: 1 })
+    const byLead = parsed.leadTimes.map((_, t) => parsed.fields.slice(t * parsed.members, (t + 1) * parsed.members))
+    if (settings.timeCoherence && byLead.length > 1) settings.timeScaleHours = fitTimeScale(byLead, leadHoursOf(parsed)).timeScaleHours
     await db.transaction(async (tx) => {
       const run = await insertParsedRun(tx, parsed, {
         name: TITLES[e.variable], status: 'ready', sourceFileName: `serevan-demo-${e.variable}.json`,

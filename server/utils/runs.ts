@@ -9,6 +9,9 @@ import { createRunTasks, insertParsedRun } from './runRecords'
 import { maxUploadBytes, receiveUpload } from './uploads'
 import { IngestError, readEnsembleFromPath, summariseRun, type EnsembleRun } from '../ingest'
 import { estimateSampleBytes, type DownscaleSettingsInput } from '../../shared/schemas/runs'
+import { fitTimeScale } from '../../shared/numerics/coherence/fitTimeScale'
+import type { DownscaleSettings } from '../db/schema/runs'
+import { leadHoursOf } from '../../shared/utils/leadHours'
 
 const notFound = (id: number) => createError({ statusCode: 404, statusMessage: 'Not Found', message: `There is no forecast run ${id}.` })
 const conflict = (message: string) => createError({ statusCode: 409, statusMessage: 'Conflict', message })
@@ -64,8 +67,10 @@ export async function confirmRun(event: H3Event, user: User, id: number, name: s
  * Queues one task per member and lead time. Allowed from ready, cancelled or failed; a run that
  * is already queued or running answers 409, so a double click starts nothing twice.
  */
-export async function startDownscaling(event: H3Event, user: User, id: number, settings: DownscaleSettingsInput) {
+export async function startDownscaling(event: H3Event, user: User, id: number, input: DownscaleSettingsInput) {
   const db = useDB()
+  const settings: DownscaleSettings = { ...input }
+  if (settings.timeCoherence) settings.timeScaleHours = await fitRunTimeScale(id)
   const taskIds = await db.transaction(async (tx) => {
     const [run] = await tx.update(tables.runs).set({ status: 'queued', settings, startedAt: null, finishedAt: null })
       .where(and(eq(tables.runs.id, id), inArray(tables.runs.status, ['ready', 'cancelled', 'failed']))).returning()
@@ -167,4 +172,19 @@ export async function getTaskFit(runId: number, taskId: number) {
     .from(tables.runTasks).where(and(eq(tables.runTasks.id, taskId), eq(tables.runTasks.runId, runId)))
   if (!task) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `Run ${runId} has no task ${taskId}.` })
   return { task }
+}
+
+/**
+ * Decorrelation time τ of the run's perturbations from its coarse members (fitTimeScale), used so
+ * that sample k of a member hangs together across lead times. Undefined for a single lead time.
+ */
+async function fitRunTimeScale(runId: number): Promise<number | undefined> {
+  const db = useDB()
+  const [run] = await db.select({ leadTimes: tables.runs.leadTimes, forecastPeriodsHours: tables.runs.forecastPeriodsHours, members: tables.runs.members })
+    .from(tables.runs).where(eq(tables.runs.id, runId))
+  if (!run || run.leadTimes.length < 2) return undefined
+  const rows = await db.select().from(tables.runFields).where(eq(tables.runFields.runId, runId))
+  const fields: Float32Array[][] = run.leadTimes.map(() => [])
+  for (const r of rows) fields[r.leadIndex]![r.memberIndex] = new Float32Array(r.data.buffer.slice(r.data.byteOffset, r.data.byteOffset + r.data.byteLength))
+  return fitTimeScale(fields, leadHoursOf(run)).timeScaleHours
 }

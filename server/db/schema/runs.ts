@@ -21,6 +21,13 @@ export interface DownscaleSettings {
   samplesPerMember: number
   kernel: 'auto' | 'se' | 'matern12' | 'matern32' | 'matern52'
   seed: number
+  /** Extensions (absent in runs started before they existed = the basic model). */
+  transform?: 'auto' | 'none' | 'boxcox' | 'log' | 'censored'
+  anisotropy?: 'off' | 'fit'
+  regimes?: 'off' | 'windows'
+  timeCoherence?: boolean
+  /** Decorrelation time τ fitted from the coarse members when the run started (hours). */
+  timeScaleHours?: number
 }
 
 export const runs = pgTable('runs', {
