@@ -2,6 +2,7 @@
  * `tessera check --truth FILE --factor B [--kernel auto|se|matern12|matern32|matern52]
  *   [--length-scale L --variance V [--mean M]] [--samples N] [--seed S]
  *   [--threshold T[,T…] | --percentile P[,P…]] [--neighbourhoods 1,3,5,9] [--spacing KM] [--units U]
+ *   [--transform auto|none|boxcox|log|censored] [--standard-name NAME] [--anisotropy off|fit] [--regimes off|windows]
  *   [--member M] [--lead L] [--variable NAME] [--out report.json] [--csv report.csv]`
  *
  * Method check: averages the fine truth over b×b blocks, downscales that coarse field (prior fitted
@@ -12,7 +13,9 @@
  * The truth is a grid JSON { nx, ny, values, spacing? } (spacing in km; no missing cells), or any
  * ensemble file the run upload reads (NetCDF, GeoTIFF, Tessera JSON: --member and --lead choose the
  * field, default 0 and 0). Defaults: kernel auto, 20 samples, seed 1, percentiles 75,90,97,
- * neighbourhoods 1,3,5,9,17,33,65. A truth that is not a multiple of B is cropped (reported).
+ * neighbourhoods 1,3,5,9,17,33,65, and the run options of a new forecast run (transform auto: chosen
+ * from the CF standard name, which an ensemble file gives and --standard-name gives for a grid JSON;
+ * anisotropy off; regimes off). A truth that is not a multiple of B is cropped (reported).
  */
 import { readFileSync, writeFileSync } from 'node:fs'
 import { joinNegativeValues, numberOption, parseOptions, UsageError } from './args'
@@ -24,7 +27,7 @@ import { IngestError, readEnsembleFromPath } from '../server/ingest'
 
 const KERNELS = ['auto', 'se', 'matern12', 'matern32', 'matern52'] as const
 
-interface Truth { values: ArrayLike<number>; nx: number; ny: number; spacingKm?: number; units?: string }
+interface Truth { values: ArrayLike<number>; nx: number; ny: number; spacingKm?: number; units?: string; standardName?: string }
 
 function numberList(text: string, name: string, integer = false): number[] {
   const items = text.split(',').map((s) => s.trim())
@@ -55,7 +58,10 @@ async function readTruth(path: string, member: number, lead: number, variable: s
   }
   if (member >= run.members) throw new UsageError(`--member ${member}: the file has ${run.members} member(s)`)
   if (lead >= run.leadTimes.length) throw new UsageError(`--lead ${lead}: the file has ${run.leadTimes.length} lead time(s)`)
-  return { values: run.fields[lead * run.members + member]!, nx: run.grid.nx, ny: run.grid.ny, spacingKm: run.grid.spacingKm, units: run.displayUnits }
+  return {
+    values: run.fields[lead * run.members + member]!, nx: run.grid.nx, ny: run.grid.ny, spacingKm: run.grid.spacingKm, units: run.displayUnits,
+    ...(run.standardName ? { standardName: run.standardName } : {}),
+  }
 }
 
 export async function run(argv: string[]): Promise<void> {
@@ -73,6 +79,10 @@ export async function run(argv: string[]): Promise<void> {
     neighbourhoods: { type: 'string' },
     spacing: { type: 'string' },
     units: { type: 'string' },
+    transform: { type: 'string' },
+    'standard-name': { type: 'string' },
+    anisotropy: { type: 'string' },
+    regimes: { type: 'string' },
     member: { type: 'string' },
     lead: { type: 'string' },
     variable: { type: 'string' },
@@ -99,8 +109,13 @@ export async function run(argv: string[]): Promise<void> {
     ? { kind: 'value', values: numberList(values.threshold, 'threshold') }
     : values.percentile !== undefined ? { kind: 'percentile', values: numberList(values.percentile, 'percentile') }
       : { kind: METHOD_CHECK_DEFAULTS.thresholds.kind, values: [...METHOD_CHECK_DEFAULTS.thresholds.values] }
+  const options = {
+    transform: (values.transform ?? METHOD_CHECK_DEFAULTS.transform) as NonNullable<MethodCheckSettings['transform']>,
+    anisotropy: (values.anisotropy ?? METHOD_CHECK_DEFAULTS.anisotropy) as NonNullable<MethodCheckSettings['anisotropy']>,
+    regimes: (values.regimes ?? METHOD_CHECK_DEFAULTS.regimes) as NonNullable<MethodCheckSettings['regimes']>,
+  }
   const settings: MethodCheckSettings = {
-    factor, kernel, ...(givenKernel ? { givenKernel } : {}),
+    factor, kernel, ...(givenKernel ? { givenKernel } : options),
     samples: values.samples === undefined ? METHOD_CHECK_DEFAULTS.samples : numberOption(values.samples, 'samples', { integer: true }),
     seed: values.seed === undefined ? METHOD_CHECK_DEFAULTS.seed : numberOption(values.seed, 'seed', { integer: true, min: 0 }),
     thresholds,
@@ -114,7 +129,8 @@ export async function run(argv: string[]): Promise<void> {
 
   let report
   try {
-    report = runMethodCheck({ truth: truth.values, nx: truth.nx, ny: truth.ny, settings, spacingKm, units: values.units ?? truth.units })
+    const standardName = values['standard-name'] ?? truth.standardName
+    report = runMethodCheck({ truth: truth.values, nx: truth.nx, ny: truth.ny, settings, spacingKm, units: values.units ?? truth.units, ...(standardName ? { standardName } : {}) })
   } catch (err) {
     // Everything the check refuses is a property of the truth or the settings (missing cells, too small, constant field…).
     throw new UsageError((err as Error).message)

@@ -60,6 +60,7 @@ export function createMethodCheckRunner({ workerId, owned, threads, log }: Metho
       const truth = new Float32Array(bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength))
       const report = await computeOnThread({
         truth, nx: row.truthNx, ny: row.truthNy, spacingKm: row.truthSpacingKm, units: row.truthUnits, settings: row.settings,
+        ...(row.truthSource.standardName ? { standardName: row.truthSource.standardName } : {}),
       }, threads, progress)
       await writing
       const stored = await completeMethodCheck(checkId, workerId, report, Date.now() - started)

@@ -68,6 +68,7 @@ function settingsFor(s: Settings, factor: number): MethodCheckSettings {
     factor,
     kernel: s.givenKernel ? s.givenKernel.kernel : s.kernel,
     ...(s.givenKernel ? { givenKernel: s.givenKernel } : {}),
+    ...(s.givenKernel ? {} : { transform: s.transform, anisotropy: s.anisotropy, regimes: s.regimes }),
     samples: s.samples, seed: s.seed, thresholds: s.thresholds,
     neighbourhoods: [...new Set(s.neighbourhoods)].sort((a, b) => a - b),
   }
@@ -83,6 +84,7 @@ function assertBlocks(truth: TruthRow, factor: number) {
 function checkValues(truth: TruthRow, settings: MethodCheckSettings, name: string, authorId: number, batchId: number | null) {
   const source: MethodCheckTruthSource = {
     kind: truth.isDemo ? 'demo' : 'upload', name: truth.name, truthId: truth.id, memberIndex: truth.memberIndex, leadIndex: truth.leadIndex,
+    ...(truth.standardName ? { standardName: truth.standardName } : {}),
     ...(truth.demoKey ? { demoKey: truth.demoKey } : {}),
     ...(truth.sourceFileName ? { fileName: truth.sourceFileName } : {}),
     ...(truth.sourceSha256 ? { sha256: truth.sourceSha256 } : {}),

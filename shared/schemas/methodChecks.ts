@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { METHOD_CHECK_DEFAULTS } from '../numerics/pipeline/methodCheckReport'
+import { ANISOTROPY_CHOICES, REGIME_CHOICES, TRANSFORM_CHOICES } from './runs'
 
 export const METHOD_CHECK_KERNELS = ['auto', 'se', 'matern12', 'matern32', 'matern52'] as const
 const FIXED_KERNELS = ['se', 'matern12', 'matern32', 'matern52'] as const
@@ -19,6 +20,10 @@ const thresholdsSchema = z.object({
 /** Settings shared by a single check and a batch (everything but the truth and the factor). */
 const settingsShape = {
   kernel: z.enum(METHOD_CHECK_KERNELS).default(METHOD_CHECK_DEFAULTS.kernel),
+  /** The run options of the member pipeline (as in a run's downscaling settings). */
+  transform: z.enum(TRANSFORM_CHOICES).default('auto'),
+  anisotropy: z.enum(ANISOTROPY_CHOICES).default('off'),
+  regimes: z.enum(REGIME_CHOICES).default('off'),
   /** Fixed prior instead of a fit: ℓ in fine cells, σ² in the field's units², optional mean. */
   givenKernel: z.object({
     kernel: z.enum(FIXED_KERNELS),

@@ -138,10 +138,13 @@ describe('method-check jobs', () => {
     // The stored report is exactly what the pure computation (and so `tessera check`) gives for the stored
     // Float32 truth, spacing and units: nothing is lost or rounded on the way through jsonb.
     const expected = runMethodCheck({
-      truth: Float32Array.from(fields[0]!), nx: 36, ny: 32, spacingKm: truth.spacingKm, units: 'm/s',
+      truth: Float32Array.from(fields[0]!), nx: 36, ny: 32, spacingKm: truth.spacingKm, units: 'm/s', standardName: 'wind_speed_of_gust',
       settings: { ...SMALL, kernel: 'auto' },
     })
     expect(check.report).toEqual(JSON.parse(JSON.stringify(expected)))
+    // Gusts are downscaled in Box–Cox values, as a run of gusts is (transform 'auto').
+    expect(check.report.fit.transform).toBe('boxcox')
+    expect(check.report.settings).toMatchObject({ transform: 'auto', anisotropy: 'off', regimes: 'off' })
     expect(check.headline).toEqual(check.report.headline)
 
     const list = await call('GET', '/api/method-checks', { cookie })

@@ -14,6 +14,8 @@ export interface MethodCheckTruthSource {
   demoKey?: string
   fileName?: string
   sha256?: string
+  /** CF standard name: picks the latent transform as for a run ('auto'). */
+  standardName?: string
   memberIndex: number
   leadIndex: number
 }

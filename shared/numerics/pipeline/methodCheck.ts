@@ -3,7 +3,8 @@
  * nx×ny, index j·nx + i, complete) is averaged over b×b blocks (the model's operator A) and that coarse
  * field is downscaled exactly as a forecast run's member is (pipeline/downscaleMember.ts sampleMember:
  * maximum-likelihood fit on the coarse field alone, the runs' cap on ℓ, conditioning by kriging), or with
- * a given prior (grf/downscaler.ts); the posterior mean and pointwise std come from the same Gaussian
+ * a given prior (grf/downscaler.ts), with the runs' options (latent transform chosen by variable,
+ * anisotropy, regimes; `standardName` as for a run); the posterior mean and pointwise std come from the same Gaussian
  * model (when the member pipeline used a latent transform or windowed regimes, the mean of the samples
  * stands in for the mean and the posterior scores are left out). All of them, together with interpolation
  * baselines of the same coarse field (interp/upsample.ts: block-constant, bilinear and bicubic, the
@@ -34,11 +35,11 @@ import { meanSquaredError } from '../verify/squaredError'
 import { sampleMember } from './downscaleMember'
 import { summariseMethodCheck } from './methodCheckSummary'
 import {
-  METHOD_CHECK_REPORT_VERSION, type ForecastScores, type MethodCheckHeadline, type MethodCheckProgress,
+  METHOD_CHECK_DEFAULTS, METHOD_CHECK_REPORT_VERSION, type ForecastScores, type MethodCheckHeadline, type MethodCheckProgress,
   type MethodCheckReport, type MethodCheckSettings, type SpectrumSeries,
 } from './methodCheckReport'
 
-export { METHOD_CHECK_DEFAULTS } from './methodCheckReport'
+export { METHOD_CHECK_DEFAULTS }
 
 export interface MethodCheckInput {
   /** The fine truth, row-major nx×ny, every value finite. */
@@ -48,6 +49,8 @@ export interface MethodCheckInput {
   /** Fine grid spacing in km, when known (distances in the report are then also in km). */
   spacingKm?: number
   units?: string
+  /** CF standard name of the variable: picks the latent transform when settings.transform is 'auto', as for runs. */
+  standardName?: string
   settings: MethodCheckSettings
 }
 
@@ -83,6 +86,9 @@ export function validateMethodCheckSettings(s: MethodCheckSettings): void {
   }
   if (s.neighbourhoods.length === 0) throw new Error('give at least one neighbourhood size')
   s.neighbourhoods.forEach(assertNeighbourhoodSize)
+  if (s.transform !== undefined && !['auto', 'none', 'boxcox', 'log', 'censored'].includes(s.transform)) throw new Error(`unknown transform "${s.transform}" (auto, none, boxcox, log or censored)`)
+  if (s.anisotropy !== undefined && !['off', 'fit'].includes(s.anisotropy)) throw new Error(`anisotropy must be off or fit, got "${s.anisotropy}"`)
+  if (s.regimes !== undefined && !['off', 'windows'].includes(s.regimes)) throw new Error(`regimes must be off or windows, got "${s.regimes}"`)
   const g = s.givenKernel
   if (g && !(g.lengthScale > 0 && g.variance > 0 && Number.isFinite(g.lengthScale) && Number.isFinite(g.variance))) {
     throw new Error('given kernel parameters need a positive length scale and variance')
@@ -91,7 +97,14 @@ export function validateMethodCheckSettings(s: MethodCheckSettings): void {
 
 /** Runs the whole check; `onProgress` is told the fraction done and the stage. */
 export function runMethodCheck(input: MethodCheckInput, onProgress: MethodCheckProgress = () => {}): MethodCheckReport {
-  const settings = { ...input.settings, neighbourhoods: [...new Set(input.settings.neighbourhoods)].sort((a, b) => a - b) }
+  const d0 = METHOD_CHECK_DEFAULTS
+  const settings: MethodCheckSettings = {
+    ...input.settings,
+    neighbourhoods: [...new Set(input.settings.neighbourhoods)].sort((a, b) => a - b),
+    ...(input.settings.givenKernel ? {} : {
+      transform: input.settings.transform ?? d0.transform, anisotropy: input.settings.anisotropy ?? d0.anisotropy, regimes: input.settings.regimes ?? d0.regimes,
+    }),
+  }
   validateMethodCheckSettings(settings)
   const b = settings.factor
   if (input.truth.length !== input.nx * input.ny) throw new Error(`truth has ${input.truth.length} values, expected ${input.nx}×${input.ny}`)
@@ -107,7 +120,7 @@ export function runMethodCheck(input: MethodCheckInput, onProgress: MethodCheckP
   const coarse = blockAverage(truth, nx, ny, b)
 
   onProgress(0.05, `fitting the prior and drawing ${settings.samples} conditional samples`)
-  const model = downscaleCoarse(coarse, cnx, cny, settings, spacing)
+  const model = downscaleCoarse(coarse, cnx, cny, settings, spacing, input.standardName)
   const { samples, fit } = model
   onProgress(0.5, 'posterior mean')
   const mean = model.mean()
@@ -208,7 +221,7 @@ interface CoarseDownscaling {
  * Downscales the coarse field: with the given prior, or as a forecast run's member (sampleMember, the
  * same inputs the worker's tasks pass), whose fitted prior then gives the posterior mean and std.
  */
-function downscaleCoarse(coarse: Float64Array, cnx: number, cny: number, s: MethodCheckSettings, spacing: number | undefined): CoarseDownscaling {
+function downscaleCoarse(coarse: Float64Array, cnx: number, cny: number, s: MethodCheckSettings, spacing: number | undefined, standardName: string | undefined): CoarseDownscaling {
   const km = (cells: number) => (spacing ? cells * spacing : null)
   const gaussian = (kernel: KernelParams, mean: number) => createDownscaler({ coarse, nx: cnx, ny: cny, factor: s.factor, kernel, mean })
   if (s.givenKernel) {
@@ -227,6 +240,8 @@ function downscaleCoarse(coarse: Float64Array, cnx: number, cny: number, s: Meth
   const member = sampleMember({
     coarse, nx: cnx, ny: cny, factor: s.factor, kernel: s.kernel, samples: s.samples, seed: s.seed,
     spacingKm: (spacing ?? 1) * s.factor, ...(s.maxLengthScaleCoarseCells !== undefined ? { maxLengthScaleCoarseCells: s.maxLengthScaleCoarseCells } : {}),
+    ...(standardName ? { standardName } : {}),
+    transform: s.transform, anisotropy: s.anisotropy, regimes: s.regimes,
   })
   const f = member.fit
   const transform = f.transform.name === 'none' ? null : f.transform.name

@@ -13,6 +13,7 @@
  */
 import type { KernelName } from '../grf/kernels'
 import type { InterpolationMethod } from '../interp/upsample'
+import type { TransformOption } from '../transform/latentTransform'
 
 export const METHOD_CHECK_REPORT_VERSION = 1
 
@@ -42,6 +43,10 @@ export interface MethodCheckSettings {
   neighbourhoods: number[]
   /** Cap on the fitted ℓ in coarse cells (default: the forecast runs' cap). */
   maxLengthScaleCoarseCells?: number
+  /** The run options of the member pipeline (defaults as for a new forecast run: 'auto', 'off', 'off'). */
+  transform?: TransformOption
+  anisotropy?: 'off' | 'fit'
+  regimes?: 'off' | 'windows'
 }
 
 export type ForecastKind = 'mean' | 'ensemble' | 'baseline' | 'sample'
@@ -182,6 +187,9 @@ export interface MethodCheckHeadline {
 /** Defaults of the settings a user may leave out (the page, the routes and `tessera check` share them). */
 export const METHOD_CHECK_DEFAULTS: Readonly<Omit<MethodCheckSettings, 'factor'>> = {
   kernel: 'auto',
+  transform: 'auto',
+  anisotropy: 'off',
+  regimes: 'off',
   samples: 20,
   seed: 1,
   thresholds: { kind: 'percentile', values: [75, 90, 97] },

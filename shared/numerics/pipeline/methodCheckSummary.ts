@@ -36,9 +36,9 @@ function neighbourhood(n: number, spacingKm: number | null): string {
   return spacingKm ? `${n}×${n} cells (${distance(n, spacingKm)})` : `${n}×${n} cells`
 }
 
-/** How a sentence names a forecast ("the posterior mean", "bicubic (block means kept)"). */
+/** How a sentence names a forecast ("the posterior mean" or "the mean of the samples", "bicubic with block means kept"). */
 function nameOf(f: ForecastScores): string {
-  if (f.kind === 'mean') return 'the posterior mean'
+  if (f.kind === 'mean') return `the ${f.label.charAt(0).toLowerCase()}${f.label.slice(1)}`
   const label = f.label.replace(' (block means kept)', ' with block means kept')
   return label.charAt(0).toLowerCase() + label.slice(1)
 }
@@ -50,16 +50,19 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
   const out: string[] = []
   const find = (id: string) => r.forecasts.find((f) => f.id === id)!
   const mean = find('mean'), ens = find('ensemble')
+  const theMean = nameOf(mean)
+  const TheMean = theMean.charAt(0).toUpperCase() + theMean.slice(1)
   const baselines = r.forecasts.filter((f) => f.kind === 'baseline')
   const smooth = baselines.filter((f) => f.method !== 'nearest')
 
   // Prior.
   const fit = r.fit
+  const transformName = fit.transform ? ({ boxcox: 'Box–Cox', log: 'log', censored: 'censored latent' } as Record<string, string>)[fit.transform] ?? fit.transform : null
   const ell = `ℓ = ${distance(fit.lengthScale, dx)}`
   if (fit.source === 'given') out.push(`Prior given, not fitted: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${u}.`)
   else {
-    let s = `Prior fitted to the coarse field alone, as for a forecast run: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${fit.transform ? ` (of the ${fit.transform}-transformed field)` : u}.`
-    if (fit.transform) s += ' The posterior mean is replaced by the mean of the samples, since the model is Gaussian only in the transformed values.'
+    let s = `Prior fitted to the coarse field alone, as for a forecast run: ${fit.kernel}, ${ell}, σ = ${formatNumber(Math.sqrt(fit.variance))}${transformName ? ` (of the ${transformName}-transformed field)` : u}.`
+    if (transformName) s += ` The field was downscaled in ${transformName}-transformed values, as a run of this variable is; the mean of the samples stands in for the posterior mean, which is Gaussian only in those values.`
     if (fit.atBound === 'upper') s += ` ℓ reached the upper end of the search (${distance(fit.lengthScaleCap ?? fit.lengthScale, dx)}): the coarse field asks for longer correlation than the method allows.`
     if (fit.atBound === 'lower') s += ' ℓ reached the lower end of the search: the coarse field looks almost uncorrelated.'
     out.push(s)
@@ -82,10 +85,10 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
     const smoothShares = smooth.map(sub).filter((v): v is number => v !== null)
     const range = smoothShares.length ? `${percent(Math.min(...smoothShares))}–${percent(Math.max(...smoothShares))}` : '—'
     const nearest = baselines.find((f) => f.method === 'nearest')
-    let s = `At wavelengths shorter than two coarse cells (${coarseScale}), which the coarse field cannot resolve, the samples carry ${percent(ens.subgridPowerRatio)} of the truth's variance, the posterior mean ${percent(mean.subgridPowerRatio)} and bilinear/bicubic interpolation ${range}`
+    let s = `At wavelengths shorter than two coarse cells (${coarseScale}), which the coarse field cannot resolve, the samples carry ${percent(ens.subgridPowerRatio)} of the truth's variance, ${theMean} ${percent(mean.subgridPowerRatio)} and bilinear/bicubic interpolation ${range}`
     if (nearest && sub(nearest) !== null && sub(nearest)! >= 0.1) s += ` (block-constant fields ${percent(sub(nearest)!)}, from the steps at block edges rather than real detail)`
     out.push(s + '.')
-    if (mean.subgridPowerRatio < 0.5) out.push('The posterior mean is smoother than the truth, as an average over all possible fine fields must be: take fine-scale detail from the samples, not from the mean.')
+    if (mean.subgridPowerRatio < 0.5) out.push(`${TheMean} is smoother than the truth, as an average over all possible fine fields must be: take fine-scale detail from the samples, not from the mean.`)
   }
 
   // MSE.
@@ -93,13 +96,13 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
   const best = points.reduce((p, q) => (q.mse < p.mse ? q : p))
   if (best === mean) {
     const runnerUp = baselines.reduce((p, q) => (q.mse < p.mse ? q : p))
-    out.push(`On MSE the posterior mean is best (RMSE ${formatNumber(mean.rmse)}${u}); the best interpolation, ${nameOf(runnerUp)}, has ${percent(runnerUp.mse / mean.mse - 1)} higher MSE.`)
+    out.push(`On MSE ${theMean} is best (RMSE ${formatNumber(mean.rmse)}${u}); the best interpolation, ${nameOf(runnerUp)}, has ${percent(runnerUp.mse / mean.mse - 1)} higher MSE.`)
   } else {
-    out.push(`${best.label} beats the posterior mean on MSE by ${percent(1 - best.mse / mean.mse)} (RMSE ${formatNumber(best.rmse)} against ${formatNumber(mean.rmse)}${u}).`)
+    out.push(`${best.label} beats ${theMean} on MSE by ${percent(1 - best.mse / mean.mse)} (RMSE ${formatNumber(best.rmse)} against ${formatNumber(mean.rmse)}${u}).`)
   }
   if (r.samples.length) {
     const ratio = r.samples.reduce((a, s) => a + s.mse, 0) / r.samples.length / mean.mse
-    let s = `A single sample's MSE is ${formatNumber(ratio)}× the posterior mean's on average (about 2× is expected: a sample adds its own spread to the mean's error), so for point values use the mean`
+    let s = `A single sample's MSE is ${formatNumber(ratio)}× that of ${theMean} on average (about 2× is expected: a sample adds its own spread to the mean's error), so for point values use the mean`
     if (ratio < 1.5) s += '; a ratio this low suggests the samples spread too little'
     if (ratio > 2.5) s += '; a ratio this high suggests the samples spread too much'
     out.push(s + '.')
@@ -129,7 +132,7 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
     const usefulText = samplesFrom === interpolationFrom
       ? `${useful} for the samples and for interpolation alike ${from(samplesFrom)}`
       : `${useful} for the samples ${from(samplesFrom)}, for interpolation ${from(interpolationFrom)}`
-    out.push(`Events ${label}, ${percent(t.baseRate)} of cells: at ${neighbourhood(r.neighbourhoods[0]!, dx)} the samples' FSS is ${formatNumber(ens.fss[ti]![0])} against ${formatNumber(bestSmall.fss[ti]![0])} for ${nameOf(bestSmall)} and ${formatNumber(mean.fss[ti]![0])} for the posterior mean; ${usefulText}.`)
+    out.push(`Events ${label}, ${percent(t.baseRate)} of cells: at ${neighbourhood(r.neighbourhoods[0]!, dx)} the samples' FSS is ${formatNumber(ens.fss[ti]![0])} against ${formatNumber(bestSmall.fss[ti]![0])} for ${nameOf(bestSmall)} and ${formatNumber(mean.fss[ti]![0])} for ${theMean}; ${usefulText}.`)
   })
 
   // Brier.
@@ -151,7 +154,7 @@ export function summariseMethodCheck(r: MethodCheckReport): string[] {
   const worst = Math.max(ens.blockMeanError, mean.blockMeanError)
   const scale = Math.max(1e-12, r.truth.std, Math.abs(r.truth.mean))
   out.push(worst <= 1e-8 * scale
-    ? `Every sample and the posterior mean average back to the coarse values (largest difference ${formatNumber(worst)}${u}, rounding).`
+    ? `Every sample and ${theMean} average back to the coarse values (largest difference ${formatNumber(worst)}${u}, rounding).`
     : `Warning: block means of the samples differ from the coarse values by up to ${formatNumber(worst)}${u}.`)
   return out
 }

@@ -46,6 +46,9 @@ describe('tessera check', () => {
     })
     const r = await check('--truth', path, '--factor', '4', '--member', '1', '--lead', '1', '--samples', '3', '--percentile', '50', '--neighbourhoods', '1')
     expect(r.grid.units).toBe('m/s')
+    // The file's standard name picks the transform, as for a run of gusts.
+    expect(r.fit.transform).toBe('boxcox')
+    expect(r.forecasts[0].label).toBe('Mean of the samples')
     // 0.02° of latitude is 2.2 km; of longitude at 45° S about 1.6 km: the reader's mean spacing lies between.
     expect(r.grid.spacingKm).toBeGreaterThan(1.5)
     expect(r.grid.spacingKm).toBeLessThan(2.3)
