@@ -120,8 +120,10 @@ describe('an issued briefing reaches the stakeholder', () => {
     await lead.goto(`${BASE_URL}/archive`)
     await lead.getByTestId('archive-q').fill('Kaldor Pass road gusts')
     await lead.getByTestId('archive-search').click()
-    await lead.getByTestId(`archive-hit-${briefingId}`).waitFor({ timeout: 30_000 })
-    await expect(lead.getByTestId(`archive-hit-${briefingId}`).locator('mark').count()).resolves.toBeGreaterThan(0)
+    await lead.waitForURL(/[?&]q=/)
+    // The words are marked in the snippet once the search (not the first, unfiltered list) has answered.
+    await lead.getByTestId(`archive-hit-${briefingId}`).locator('mark').first().waitFor({ timeout: 30_000 })
+    await expect(lead.getByTestId(`archive-hit-${briefingId}`).locator('mark').allTextContents()).resolves.toEqual(expect.arrayContaining([expect.stringMatching(/kaldor|pass|road|gust/i)]))
     const cap = await lead.request.get(`${BASE_URL}/api/briefings/${briefingId}/export/cap`)
     expect(await cap.text()).toContain('<scope>Restricted</scope>')
     await screenshot(lead, 'distribution-archive')

@@ -6,6 +6,7 @@ import { simpleParser } from 'mailparser'
 import { useDB, closeDB, tables } from '../../server/utils/db'
 import { stopBoss } from '../../server/utils/jobs'
 import { queueBriefingMail } from '../../server/utils/briefingMail'
+import { outboxMessageId } from '../../server/utils/mailOutbox'
 import { call, signInAs, uniqueEmail, BASE_URL } from '../support/http'
 import { startWorker, waitFor, type WorkerProcess } from '../support/worker'
 import { makeBriefing, makeOrganisationWithList, receivedWithMessageId } from './distribution/records'
@@ -81,18 +82,24 @@ describe('briefing mail through the routes', () => {
   })
 
   it('lets a lead re-send a failed message, and refuses to re-send a delivered one', async () => {
-    const rows = (await db.select().from(tables.mailOutbox).where(eq(tables.mailOutbox.briefingId, briefingId))).filter((r) => r.kind === 'issue')
-    const [failed, delivered] = rows
-    await db.update(tables.mailOutbox).set({ status: 'failed', lastError: 'Simulated failure' }).where(eq(tables.mailOutbox.id, failed!.id))
+    const [delivered] = (await db.select().from(tables.mailOutbox).where(eq(tables.mailOutbox.briefingId, briefingId))).filter((r) => r.kind === 'issue' && r.status === 'sent')
+    // A message the relay refused for good (as the worker leaves it after a 550).
+    const key = `it-refused:${briefingId}:${Date.now()}`
+    const [failed] = await db.insert(tables.mailOutbox).values({
+      idempotencyKey: key, kind: 'issue', status: 'failed', briefingId, toAddress: uniqueEmail('refused'), subject: 'Refused once', textBody: 'x', htmlBody: '<p>x</p>',
+      listNames: [], messageId: outboxMessageId(key), attempts: 1, maxAttempts: 8, lastError: 'The relay refused the message: 550 mailbox unavailable',
+    }).returning()
+    await db.insert(tables.mailAttempts).values({ outboxId: failed!.id, attempt: 1, worker: 'test', finishedAt: new Date(), outcome: 'refused', detail: '550 mailbox unavailable' })
     expect((await call('POST', `/api/mail/outbox/${failed!.id}/retry`, { cookie: cookies.forecaster })).status).toBe(403)
     const res = await call('POST', `/api/mail/outbox/${failed!.id}/retry`, { cookie: cookies.duty_lead })
     expect(res.status).toBe(200)
     expect(res.body.status).toBe('queued')
-    await waitFor('re-sent', async () => (await receivedWithMessageId(failed!.messageId)).length === 2, 60_000)
+    await waitFor('re-sent', async () => (await receivedWithMessageId(failed!.messageId)).length === 1, 60_000)
+    await waitFor('marked sent', async () => (await db.select().from(tables.mailOutbox).where(eq(tables.mailOutbox.id, failed!.id)))[0]!.status === 'sent', 30_000)
     expect((await call('POST', `/api/mail/outbox/${delivered!.id}/retry`, { cookie: cookies.duty_lead })).status).toBe(409)
     const audit = await db.select().from(tables.auditLog).where(eq(tables.auditLog.action, 'mail.retry'))
     expect(audit.some((a) => a.entityId === String(failed!.id))).toBe(true)
-  })
+  }, 120_000)
 
   it('shows what arrived in the mail log, with the PDF as an attachment', async () => {
     const list = await call('GET', '/api/mail/received?limit=50', { cookie: cookies.admin })
