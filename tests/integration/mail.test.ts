@@ -94,6 +94,24 @@ describe('issuing sends the briefing by e-mail', () => {
     await waitFor('rows marked sent', async () => (await outboxFor(briefing.id)).every((r) => r.status === 'sent'), 30_000)
   }, 90_000)
 
+  it('sends an amendment to the new lists and to everyone who had the version it replaces', async () => {
+    const extra = await makeOrganisationWithList({ contacts: [{ name: 'Cai Lund', email: `cai-${tag()}@ferry-ops.example` }] })
+    const v2 = await makeBriefing({ status: 'approved', seriesId: briefing.seriesId, version: 2, supersedesId: briefing.id, listKeys: [{ key: extra.list.key, name: extra.list.name }] })
+    await db.transaction(async (tx) => {
+      await tx.update(tables.briefings).set({ status: 'issued', issuedAt: new Date('2031-11-14T11:00:00Z') }).where(eq(tables.briefings.id, v2.id))
+      expect(await queueBriefingMail(tx, v2.id, 'amended')).toMatchObject({ recipients: 3, queued: 3 })
+    })
+    const amended = await outboxFor(v2.id)
+    expect(amended.map((r) => r.kind)).toEqual(['amended', 'amended', 'amended'])
+    for (const r of amended) {
+      expect(r.subject).toMatch(/^AMENDED .* — v2$/)
+      expect(r.textBody).toContain('It replaces version 1')
+      expect(r.attachmentSha256).toBe(v2.pdfSha256)
+    }
+    const got = await waitFor('amendment', async () => { const m = await receivedWithMessageId(amended[0]!.messageId); return m.length ? m : null }, 60_000)
+    expect(got).toHaveLength(1)
+  }, 90_000)
+
   it('sends a withdrawal notice to the same lists, without the PDF', async () => {
     await db.transaction(async (tx) => {
       await tx.update(tables.briefings).set({ status: 'withdrawn', withdrawnAt: new Date(), withdrawnReason: 'Issued for the wrong day.' }).where(eq(tables.briefings.id, briefing.id))
