@@ -6,6 +6,7 @@ import { useDB, tables } from './db'
 import { recordAudit } from './audit'
 import { enqueueTasks } from './jobs'
 import { createRunTasks, insertParsedRun } from './runRecords'
+import { forgetRunSamples } from './runSamples'
 import { maxUploadBytes, receiveUpload } from './uploads'
 import { IngestError, readEnsembleFromPath, summariseRun, type EnsembleRun } from '../ingest'
 import { estimateSampleBytes, type DownscaleSettingsInput } from '../../shared/schemas/runs'
@@ -85,6 +86,7 @@ export async function startDownscaling(event: H3Event, user: User, id: number, i
   })
   // Jobs are sent after the commit; a task without a job is re-queued by the worker's sweeper.
   await enqueueTasks(taskIds)
+  forgetRunSamples(id)
   return getRun(id)
 }
 
@@ -114,6 +116,7 @@ export async function deleteRun(event: H3Event, user: User, id: number) {
     if (!existing) throw notFound(id)
     throw conflict('Cancel the downscaling before deleting the run.')
   }
+  forgetRunSamples(id)
   await recordAudit({ actor: user, action: 'run.delete', entityType: 'run', entityId: id, before: runSummary(row) }, event)
 }
 
