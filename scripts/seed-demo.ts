@@ -3,6 +3,7 @@ import { useDB, closeDB, tables } from '../server/utils/db'
 import { hashPasswordForScript } from './lib/passwordHash'
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './lib/demoAccounts'
 import { DEMO_SIZES, seedDemoRuns } from './lib/demoRuns'
+import { seedDemoTruths } from './lib/demoTruths'
 import { seedDemoDirectory } from './lib/demoDirectory'
 
 const db = useDB()
@@ -21,4 +22,5 @@ await seedDemoDirectory((m) => console.log(`[tessera] ${m}`))
 // TESSERA_DEMO_SIZE=small keeps test set-up quick; npm start seeds the full scenario.
 const size = process.env.TESSERA_DEMO_SIZE === 'small' ? 'small' : 'full'
 await seedDemoRuns(DEMO_SIZES[size], (m) => console.log(`[tessera] ${m}`))
+await seedDemoTruths((m) => console.log(`[tessera] ${m}`))
 await closeDB()
