@@ -1,12 +1,13 @@
 /**
  * Time-coherent white noise for the engine's samplesFromNoise: at lead t the noise of sample pair p is
  * Σ_s c_{t,s} ε_{p,s} (leadNoiseWeights.ts), each innovation ε_{p,s} a seeded spatial white-noise plane.
- * The noise is keyed by signed cell coordinates relative to the fine window, not by torus index:
- * row/column order 0…n−1 is the window, then alternately the next cell to the right/below and to the
- * left/above (torus index N − 1, N − 2, …). Leads whose fitted length scale gives a different torus
- * size therefore still share the noise of every cell both tori contain, which is all that lies within
- * half a padding of the window; farther cells reach the window only through the tail of the kernel's
- * square root.
+ * The noise is keyed by signed cell coordinates relative to the fine window, not by torus index: each
+ * torus row has two streams, one for the window and the cells to its right (torus index 0, 1, …) and
+ * one for the cells to its left (torus index N − 1, N − 2, …), and rows are keyed the same way. Leads
+ * whose fitted length scale gives a different torus size therefore still share the noise of every cell
+ * both tori contain, which is all that lies within half a padding of the window; farther cells reach
+ * the window only through the tail of the kernel's square root. The right part of the padding gets
+ * ⌈P/2⌉ of its P cells, the left part ⌊P/2⌋ (P = torus side − window side).
  */
 import type { WhiteNoiseSource } from '../grf/downscaler'
 import { fillStandardNormal } from '../random/normal'
@@ -26,22 +27,17 @@ export interface CoherentNoiseSpec {
 
 const MAX_LEADS = 4096
 const MAX_SIDE = 65536
-const MAX_PAIRS = 2 ** 24
+const MAX_PAIRS = 2 ** 21
 
-/** Torus index of each position in the signed order (window first, then right/left alternately). */
-export function signedOrder(torusSide: number, windowSide: number): Int32Array {
-  const out = new Int32Array(torusSide)
-  for (let k = 0; k < torusSide; k++) {
-    if (k < windowSide) { out[k] = k; continue }
-    const q = (k - windowSide) >> 1
-    out[k] = (k - windowSide) % 2 === 0 ? windowSide + q : torusSide - 1 - q
-  }
-  return out
+/** Cells of a torus side in the right part (window included) and in the left part of the padding. */
+export function sideSplit(torusSide: number, windowSide: number): { right: number; left: number } {
+  const padding = torusSide - windowSide
+  return { right: windowSide + Math.ceil(padding / 2), left: Math.floor(padding / 2) }
 }
 
-/** Stream of innovation s, plane (0 = re, 1 = im), signed row r of pair p: unique while the limits hold. */
-function streamIndex(pair: number, innovation: number, plane: number, row: number): number {
-  return ((pair * MAX_LEADS + innovation) * 2 + plane) * MAX_SIDE + row
+/** Stream of innovation s, plane (0 = re, 1 = im), row key r (2j for row j ≥ 0, 2|j| − 1 above the window) and part (0 = right, 1 = left) of pair p. */
+function streamIndex(pair: number, innovation: number, plane: number, rowKey: number, part: number): number {
+  return (((pair * MAX_LEADS + innovation) * 2 + plane) * 2 * MAX_SIDE + rowKey) * 2 + part
 }
 
 /** A WhiteNoiseSource giving AR(1)-coherent noise for one lead of one member. */
@@ -51,16 +47,21 @@ export function coherentWhiteNoise(spec: CoherentNoiseSpec): WhiteNoiseSource & 
   const w = leadNoiseWeights(spec.leadHours, spec.leadIndex, spec.timeScaleHours, spec.truncation ?? DEFAULT_NOISE_TRUNCATION)
   const source = (pair: number, re: Float64Array, im: Float64Array, tx: number, ty: number, wx: number, wy: number): void => {
     if (pair >= MAX_PAIRS || tx > MAX_SIDE || ty > MAX_SIDE) throw new Error('noise request beyond the supported pairs or torus size')
-    const columns = signedOrder(tx, wx), rows = signedOrder(ty, wy)
+    const cols = sideSplit(tx, wx), rows = sideSplit(ty, wy)
     const buffer = new Float64Array(tx)
     re.fill(0); im.fill(0)
     for (let s = w.first; s < w.first + w.weights.length; s++) {
       const c = w.weights[s - w.first]!
       for (const [plane, out] of [re, im].entries()) {
-        for (let r = 0; r < ty; r++) {
-          fillStandardNormal(new Xoshiro128(spec.noiseSeed, streamIndex(pair, s, plane, r)), buffer)
-          const base = rows[r]! * tx
-          for (let k = 0; k < tx; k++) out[base + columns[k]!]! += c * buffer[k]!
+        for (let j = 0; j < ty; j++) {
+          // Row j of the torus is signed row j (right part) or j − ty (left part).
+          const rowKey = j < rows.right ? 2 * j : 2 * (ty - j) - 1
+          const base = j * tx
+          fillStandardNormal(new Xoshiro128(spec.noiseSeed, streamIndex(pair, s, plane, rowKey, 0)), buffer, 0, cols.right)
+          for (let i = 0; i < cols.right; i++) out[base + i]! += c * buffer[i]!
+          if (cols.left === 0) continue
+          fillStandardNormal(new Xoshiro128(spec.noiseSeed, streamIndex(pair, s, plane, rowKey, 1)), buffer, 0, cols.left)
+          for (let q = 0; q < cols.left; q++) out[base + tx - 1 - q]! += c * buffer[q]!
         }
       }
     }

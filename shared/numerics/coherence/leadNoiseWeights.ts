@@ -7,8 +7,9 @@
  * so corr(w_t, w_u) = e^{−|T_t − T_u|/τ} for any two leads (uneven spacing included). A task at lead t
  * regenerates ε₀…ε_t from their seeds; the oldest innovations are dropped while their total weight
  * Σ c² stays below `truncation` (the rest renormalised). By Cauchy–Schwarz that changes a correlation
- * by at most about √truncation (0.01 by default), and only between leads many τ apart, whose
- * correlation is itself of that order.
+ * by at most about √truncation (0.03 by default), and only between leads several τ apart, whose
+ * correlation is itself of that order; each innovation costs one noise plane per sample, so this
+ * bounds the work at late leads to about ln(1/truncation)·τ/(2Δt) planes.
  */
 
 export interface LeadNoiseWeights {
@@ -21,7 +22,7 @@ export interface LeadNoiseWeights {
 }
 
 /** Default truncation of the innovation weights (share of variance). */
-export const DEFAULT_NOISE_TRUNCATION = 1e-4
+export const DEFAULT_NOISE_TRUNCATION = 1e-3
 
 /** Checks lead hours (finite, strictly increasing), a lead index into them and τ ≥ 0 (hours; ∞ allowed). */
 export function checkLeadTimes(leadHours: ArrayLike<number>, leadIndex: number, timeScaleHours: number): void {
@@ -56,4 +57,17 @@ export function leadNoiseWeights(leadHours: ArrayLike<number>, leadIndex: number
 export function leadCorrelation(hoursA: number, hoursB: number, timeScaleHours: number): number {
   if (hoursA === hoursB) return 1
   return timeScaleHours === 0 ? 0 : Math.exp(-Math.abs(hoursA - hoursB) / timeScaleHours)
+}
+
+/**
+ * True when, after truncation, lead `leadIndex` shares no innovation with any other lead: it uses only
+ * its own, and the next lead (hence every later one) has dropped it. Its noise is then independent of
+ * all other leads and may be drawn any way (e.g. the engine's seeded spectral draw, one FFT cheaper).
+ * Undecidable without the next lead's time: false when leadIndex is the last lead given but not the
+ * last of the run (`isLastLead` false).
+ */
+export function isIsolatedLead(leadHours: ArrayLike<number>, leadIndex: number, timeScaleHours: number, truncation = DEFAULT_NOISE_TRUNCATION, isLastLead = false): boolean {
+  if (leadNoiseWeights(leadHours, leadIndex, timeScaleHours, truncation).first !== leadIndex) return false
+  if (leadIndex + 1 >= leadHours.length) return isLastLead
+  return leadNoiseWeights(leadHours, leadIndex + 1, timeScaleHours, truncation).first > leadIndex
 }

@@ -9,7 +9,7 @@
  * Pure: used by the job worker's threads, the demo seeding and the command line alike.
  */
 import { coherentWhiteNoise } from '../coherence/coherentNoise'
-import { leadCorrelation } from '../coherence/leadNoiseWeights'
+import { DEFAULT_NOISE_TRUNCATION, isIsolatedLead, leadCorrelation } from '../coherence/leadNoiseWeights'
 import { defaultLengthScaleBounds, fitCoarseField, kernelParamsOf, type FitResult } from '../fit/fitCoarse'
 import { createDownscaler } from '../grf/downscaler'
 import type { KernelName } from '../grf/kernels'
@@ -26,12 +26,17 @@ import { regimeSampler, stationarySampler, type MemberSampler } from './memberSa
 export interface TimeCoherenceInput {
   /** This task's lead index into leadHours. */
   leadIndex: number
-  /** Lead times (hours since the reference time) of the run, at least up to leadIndex; strictly increasing. */
+  /** Lead times (hours since the reference time) of the run, strictly increasing: all of them, or at least up to leadIndex + 1. */
   leadHours: number[]
   /** Decorrelation time τ (hours): ρ = exp(−Δt/τ) between leads Δt apart. */
   timeScaleHours: number
   /** The same for every lead of one member (memberNoiseSeed), different between members. */
   noiseSeed: number
+  /**
+   * True when leadIndex is the run's last lead. Only needed when leadHours stops at leadIndex: without
+   * the next lead's time the task cannot tell whether a later lead uses this lead's noise.
+   */
+  isLastLead?: boolean
 }
 
 export interface DownscaleMemberInput {
@@ -242,19 +247,26 @@ function chooseRegimes(fitField: Float64Array, targets: Float64Array, fit: FitRe
   return { sampler, summary }
 }
 
-/** Latent samples: seeded per lead, or from time-coherent noise (one independent stream per regime window). */
-function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number> } {
+/**
+ * Latent samples: seeded per lead, or from time-coherent noise (one independent stream per regime
+ * window). A lead that shares no innovation with any other (τ short against the lead spacing) takes
+ * the seeded spectral draw instead: the same in law, and one FFT per pair cheaper.
+ */
+function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number | boolean> } {
   const tc = input.timeCoherence
   if (!tc) return { samples: downscaler.samples(input.samples, input.seed) }
-  const noise = coherentWhiteNoise(tc)
   const t = tc.leadIndex
+  const summary = {
+    leadIndex: t, timeScaleHours: tc.timeScaleHours,
+    correlationWithPreviousLead: t > 0 ? leadCorrelation(tc.leadHours[t]!, tc.leadHours[t - 1]!, tc.timeScaleHours) : NaN,
+  }
+  if (isIsolatedLead(tc.leadHours, t, tc.timeScaleHours, DEFAULT_NOISE_TRUNCATION, tc.isLastLead ?? false)) {
+    return { samples: downscaler.samples(input.samples, taskSeed(tc.noiseSeed, t, -1)), coherence: { ...summary, innovations: 1, droppedWeight: 0, isolated: true } }
+  }
+  const noise = coherentWhiteNoise(tc)
   return {
     samples: downscaler.samplesFromNoise(input.samples, (w) => (w === 0 ? noise : coherentWhiteNoise({ ...tc, noiseSeed: windowSeed(tc.noiseSeed, w) }))),
-    coherence: {
-      leadIndex: t, timeScaleHours: tc.timeScaleHours,
-      correlationWithPreviousLead: t > 0 ? leadCorrelation(tc.leadHours[t]!, tc.leadHours[t - 1]!, tc.timeScaleHours) : NaN,
-      innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped,
-    },
+    coherence: { ...summary, innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped, isolated: false },
   }
 }
 

@@ -1,14 +1,16 @@
 /**
  * Restores the physical block means of back-transformed samples. Conditioning makes the latent
  * block means exact, A g = t, but block means are linear only there: A h(g) ≠ h(A g) (Jensen), so
- * the samples' physical block means miss the coarse values y. Documented correction, per sample:
+ * the samples' physical block means miss the coarse values y. Documented correction:
  *  1. Re-conditioning rounds (smooth): the latent targets are moved by a Newton step per block,
  *     Δ_I = (y_I − mean_I h(g)) / mean_I h′(g) (the response of the block mean to a uniform latent
  *     shift), and the sample re-conditioned to them, g ← g + K Aᵀ C⁻¹ Δ, until every block is within
- *     `tolerance` or after `maxIterations` rounds. By default the rounds are shared: every sample moves
- *     by the mean of the samples' steps, one coarse solve and one fine FFT per round whatever the
- *     number of samples (the Jensen gap mostly depends on the block's conditional spread, common to
- *     all samples); `shared: false` gives each sample its own step (one solve and FFT per two samples).
+ *     `tolerance`, after `maxIterations` rounds, or once a round gains less than 30 % (shared rounds
+ *     level off when only the samples' own fluctuations are left). By default the rounds are shared:
+ *     every sample moves by the mean of the samples' steps, one coarse solve and one fine FFT per round
+ *     whatever the number of samples (the Jensen gap mostly depends on the block's conditional spread,
+ *     common to all samples); `shared: false` gives each sample its own step (one solve and FFT per
+ *     two samples).
  *     The error of a block is |y − mean h(g)| / max(y, ȳ), ȳ the mean of the positive coarse values,
  *     so near-zero amounts are judged on the field's scale rather than their own.
  *     Censored model: a dry block (y = 0) whose latent maximum is above the threshold gets Δ = −max g

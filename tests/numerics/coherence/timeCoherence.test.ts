@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { createDownscaler, type DownscalerSpec } from '../../../shared/numerics/grf/downscaler'
-import { coherentWhiteNoise, signedOrder } from '../../../shared/numerics/coherence/coherentNoise'
+import { coherentWhiteNoise, sideSplit } from '../../../shared/numerics/coherence/coherentNoise'
 import { fitTimeScale } from '../../../shared/numerics/coherence/fitTimeScale'
-import { leadCorrelation, leadNoiseWeights } from '../../../shared/numerics/coherence/leadNoiseWeights'
+import { isIsolatedLead, leadCorrelation, leadNoiseWeights } from '../../../shared/numerics/coherence/leadNoiseWeights'
 import { sampleMember } from '../../../shared/numerics/pipeline/downscaleMember'
 import { Xoshiro128 } from '../../../shared/numerics/random/xoshiro128'
 import { fillStandardNormal } from '../../../shared/numerics/random/normal'
@@ -51,6 +51,14 @@ describe('lead-time noise weights (Ornstein–Uhlenbeck sampled at the lead time
     const shared = leadNoiseWeights(hours, 3, Infinity, 0)
     expect(Array.from(shared.weights)).toEqual([1, 0, 0, 0])
   })
+  it('a lead is isolated only when it uses its own innovation alone and the next lead has dropped it', () => {
+    const h = [0, 6, 12]
+    expect(isIsolatedLead(h, 1, 1.3)).toBe(true) // ρ² = e^{−12/1.3} ≈ 1e-4 below the truncation
+    expect(isIsolatedLead(h, 1, 12)).toBe(false)
+    expect(isIsolatedLead(h, 0, 12)).toBe(false) // lead 1 uses lead 0's noise
+    expect(isIsolatedLead([0, 6], 1, 1.3)).toBe(false) // the next lead is unknown
+    expect(isIsolatedLead([0, 6], 1, 1.3, undefined, true)).toBe(true)
+  })
   it('rejects bad lead times', () => {
     expect(() => leadNoiseWeights([0, 6, 6], 2, 5)).toThrow(/increasing/)
     expect(() => leadNoiseWeights([0, 6], 2, 5)).toThrow(/outside/)
@@ -58,9 +66,9 @@ describe('lead-time noise weights (Ornstein–Uhlenbeck sampled at the lead time
 })
 
 describe('coherent white noise', () => {
-  it('signed order: the window first, then right and left alternately; a permutation', () => {
-    expect(Array.from(signedOrder(8, 5))).toEqual([0, 1, 2, 3, 4, 5, 7, 6])
-    expect(new Set(signedOrder(64, 20)).size).toBe(64)
+  it('splits the padding: ⌈P/2⌉ cells to the right of the window, ⌊P/2⌋ to the left', () => {
+    expect(sideSplit(8, 5)).toEqual({ right: 7, left: 1 })
+    expect(sideSplit(64, 20)).toEqual({ right: 42, left: 22 })
   })
 
   it('tori of different sizes share the noise of every cell both contain (by signed coordinate)', () => {
@@ -142,6 +150,10 @@ describe('time-coherent conditional samples', () => {
     expect(a.samples[2]).toEqual(b.samples[2])
     expect(a.diagnostics.timeCoherence).toMatchObject({ leadIndex: 1, correlationWithPreviousLead: expect.closeTo(rho, 12), innovations: 2 })
     expect(a.blockMeanError).toBeLessThan(1e-12)
+    // τ short against the spacing: the lead shares nothing with the others and takes the seeded draw.
+    const isolated = sampleMember({ ...input, timeCoherence: { ...tc(1), timeScaleHours: 1 } })
+    expect(isolated.diagnostics.timeCoherence).toMatchObject({ isolated: true, innovations: 1 })
+    expect(isolated.samples[0]).not.toEqual(a.samples[0])
   })
 })
 
