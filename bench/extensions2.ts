@@ -64,8 +64,10 @@ function memberCase(side: number, repeats: number, out: Figures): void {
   for (const [k, v] of Object.entries(ratios)) out[`${label}_${k}Ratio`] = round(median(v))
   out[`${label}_boxcoxRounds`] = boxReport!.iterations
   out[`${label}_boxcoxMaxShiftInScale`] = round(boxReport!.maxShiftInScale, 4)
+  out[`${label}_boxcoxRmsShiftInScale`] = round(boxReport!.rmsShiftInScale, 4)
   out[`${label}_censoredRounds`] = rainReport!.iterations
   out[`${label}_censoredRmsShiftInScale`] = round(rainReport!.rmsShiftInScale, 4)
+  out[`${label}_censoredMaxShiftInScale`] = round(rainReport!.maxShiftInScale, 4)
   out[`${label}_worstPhysicalRelativeError`] = Math.max(boxReport!.finalRelativeError, rainReport!.finalRelativeError)
 }
 
