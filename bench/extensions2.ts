@@ -5,6 +5,7 @@
  *    512² and 1024² fine: Box–Cox and the censored latent Gaussian against the plain Gaussian treatment
  *    of the same field; time-coherent noise at the 4th lead (4 innovations) against seeded noise.
  *    Median of the per-pair ratios.
+ *  - the dry fraction of censored-model samples against synthetic truths (λ fitted / set);
  *  - the demo scenario (bench/demo.ts's run, same pool of threads) with every extension on (transform
  *    'auto' by CF name, time-coherent noise with τ fitted from the coarse members) against the basic
  *    settings, lead by lead in A-B-B-A order. Size from TESSERA_EXT2_DEMO: 'full', 'small' (default)
@@ -14,7 +15,7 @@
 import { availableParallelism } from 'node:os'
 import { synthesiseDemoEnsembles, type DemoEnsemble } from '../shared/demo/synthesise'
 import { fitTimeScale } from '../shared/numerics/coherence/fitTimeScale'
-import { createDownscaler } from '../shared/numerics/grf/downscaler'
+import { blockMeans, createDownscaler } from '../shared/numerics/grf/downscaler'
 import { memberNoiseSeed, sampleMember, taskSeed, type DownscaleMemberInput, type DownscaleMemberOutput } from '../shared/numerics/pipeline/downscaleMember'
 import { inverseBoxCox } from '../shared/numerics/transform/boxCox'
 import { censoredToPhysical } from '../shared/numerics/transform/censoredPower'
@@ -69,6 +70,29 @@ function memberCase(side: number, repeats: number, out: Figures): void {
   out[`${label}_censoredRmsShiftInScale`] = round(rainReport!.rmsShiftInScale, 4)
   out[`${label}_censoredMaxShiftInScale`] = round(rainReport!.maxShiftInScale, 4)
   out[`${label}_worstPhysicalRelativeError`] = Math.max(boxReport!.finalRelativeError, rainReport!.finalRelativeError)
+}
+
+/**
+ * Dry-fraction calibration on synthetic truths from the censored model itself (latent Matérn-3/2,
+ * ℓ = 6 fine cells, σ = 1, μ = 0.3, λ = 0.7; 16×16 coarse, b = 4): mean over 10 truths of (samples' dry
+ * fraction − truth's), with λ fitted on the coarse field (the default) and with λ set to the truth.
+ */
+function dryFractionCase(out: Figures): void {
+  const nx = 16, b = 4
+  const truth = createDownscaler({ coarse: new Float64Array(nx * nx), nx, ny: nx, factor: b, kernel: { kernel: 'matern32', lengthScale: 6, variance: 1 }, mean: 0 })
+  const dry = (f: ArrayLike<number>) => { let n = 0; for (let k = 0; k < f.length; k++) if (f[k] === 0) n++; return n / f.length }
+  for (const [label, lambda] of [['fittedLambda', undefined], ['trueLambda', 0.7]] as const) {
+    const d: number[] = []
+    for (let r = 0; r < 10; r++) {
+      const x = truth.unconditional(101, r).map((v) => censoredToPhysical(v + 0.3, 0.7))
+      const y = blockMeans(x, nx * b, nx, nx, b)
+      const o = sampleMember({ coarse: y, nx, ny: nx, factor: b, kernel: 'matern32', samples: 8, seed: 50 + r, spacingKm: 4, transform: 'censored', transformLambda: lambda })
+      d.push(o.samples.reduce((a, s) => a + dry(s), 0) / o.samples.length - dry(x))
+    }
+    const mean = d.reduce((a, v) => a + v, 0) / d.length
+    out[`dryFractionBias_${label}`] = round(mean, 3)
+    out[`dryFractionBiasSe_${label}`] = round(Math.sqrt(d.reduce((a, v) => a + (v - mean) ** 2, 0) / (d.length - 1) / d.length), 3)
+  }
 }
 
 /** Inputs of every task of one demo ensemble, basic or with the extensions. */
@@ -130,6 +154,7 @@ export async function bench(): Promise<Figures> {
   if (process.env.TESSERA_EXT2_MEMBERS !== 'off') {
     memberCase(64, 3, figures)
     memberCase(128, 3, figures)
+    dryFractionCase(figures)
   }
   const demo = (process.env.TESSERA_EXT2_DEMO ?? 'small') as 'full' | 'small' | 'off'
   if (demo !== 'off') await demoCase(demo, figures)
