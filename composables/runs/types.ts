@@ -3,6 +3,9 @@
  * server/ingest/types.ts RunSummary). Times arrive as ISO 8601 strings.
  */
 import type { KERNEL_CHOICES } from '#shared/schemas/runs'
+import type { AnisotropyFit } from '#shared/numerics/fit/fitCoarse'
+import type { RegimeSummary } from '#shared/numerics/pipeline/downscaleMember'
+import type { TransformSummary } from '#shared/numerics/transform/latentCoarse'
 
 export type RunStatus = 'staged' | 'ready' | 'queued' | 'running' | 'completed' | 'failed' | 'cancelled'
 export type TaskStatus = 'pending' | 'running' | 'done' | 'failed' | 'cancelled'
@@ -91,6 +94,27 @@ export interface TaskFit {
   lengthScaleBounds?: [number, number]
   candidates?: { kernel: FittedKernel; logLikelihood: number; lengthScale: number; method: FitMethod }[]
   profile?: ProfilePoint[]
+  /** Present when the run's anisotropy setting is 'fit'. */
+  anisotropy?: TaskAnisotropy
+  /** The latent transform; absent on runs made before transforms existed. */
+  transform?: TaskTransform
+  /** Present when the run's regimes setting is 'windows'. */
+  regimes?: TaskRegimes
+}
+
+/**
+ * Fitted geometric anisotropy (shared/numerics/fit/fitCoarse.ts): ratio ℓ₂/ℓ₁, the long axis' angle from the
+ * +column (east) axis towards the +row (north) axis, ℓ₁ and ℓ₂ in fine cells; `adopted` when the fit's ℓ, σ², …
+ * are those of the anisotropic model.
+ */
+export type TaskAnisotropy = Pick<AnisotropyFit, 'source' | 'adopted' | 'ratio' | 'angle' | 'angleDegrees' | 'majorLengthScale' | 'minorLengthScale' | 'logLikelihoodGain'>
+
+/** The latent transform of a member (shared/numerics/transform/latentCoarse.ts); the table needs name and λ. */
+export type TaskTransform = Pick<TransformSummary, 'name' | 'lambda' | 'lambdaFitted'> & Partial<Omit<TransformSummary, 'name' | 'lambda' | 'lambdaFitted'>>
+
+/** Regime windows of a member (shared/numerics/pipeline/downscaleMember.ts); per window the table needs whether it departs and its ℓ. */
+export type TaskRegimes = Omit<RegimeSummary, 'windows'> & {
+  windows: (Pick<RegimeSummary['windows'][number], 'departs' | 'lengthScale' | 'lengthScaleKm'> & Partial<RegimeSummary['windows'][number]>)[]
 }
 
 export interface ProfilePoint { lengthScaleKm: number; logLikelihood: number }
