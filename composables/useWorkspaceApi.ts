@@ -8,13 +8,32 @@ import type { AreaRecord } from '#shared/schemas/areas'
 
 export type DisplayClassDto = DisplayClass
 
+/** The lead time of an answer, or the time window it covers (window set). */
+export interface LeadDto {
+  index: number
+  validTime: string
+  when: string
+  window?: { from: number; to: number; extreme: 'max' | 'min'; validTimes: string[]; timeCoherent: boolean; meaning: string } | null
+}
+
+/** Median fitted correlation shape of a lead time's members, with its ring for the map. */
+export interface StructureDto {
+  members: number
+  anisotropic: number
+  majorKm: number
+  minorKm: number
+  angleDegrees: number
+  transform: string
+  ring: [number, number][]
+}
+
 export interface ProductSummary {
   run: { id: number; name: string; isDemo: boolean; displayUnits: string; standardName: string | null; leadTimes: string[] }
-  lead: { index: number; validTime: string; when: string }
+  lead: LeadDto
   scenarios: { members: number; of: number; samplesPerMember: number | null; samples: number }
   request: { product: ProductName; threshold: number; direction: ThresholdDirection; radiusKm: number; radiusCells: number }
   event: string
-  legend: { kind: 'probability' | 'value'; title: string; units: string; classes: DisplayClassDto[]; explanation?: string; missingNote?: string }
+  legend: { kind: 'probability' | 'value'; title: string; units: string; classes: DisplayClassDto[]; explanation?: string; missingNote?: string; windowNote?: string }
   classCounts: number[]
   missingCells: number
   maximum: number | null
@@ -22,9 +41,10 @@ export interface ProductSummary {
   grid: { kind: string; nx: number; ny: number; factor: number; fineSpacingKm: number; outline: [number, number][]; bounds: [number, number, number, number] }
   image: { corners: [number, number][]; width: number; height: number }
   timing: { loadMs: number; requestLoadMs: number; computeMs: number }
+  structure: StructureDto | null
 }
 
-export type PointReadoutDto = PointReadout & { lead: { index: number; validTime: string; when: string }; event: string }
+export type PointReadoutDto = PointReadout & { lead: LeadDto; event: string }
 
 export type AreaDto = AreaRecord<string> & { canEdit: boolean }
 
@@ -70,7 +90,7 @@ export type AreaShape =
   | { circle: { centre: [number, number]; radiusKm: number } }
   | { rectangle: { west: number; south: number; east: number; north: number } }
 
-export interface ProductQuery { lead: number; threshold: number; direction: ThresholdDirection; radius: number; product: ProductName }
+export interface ProductQuery { lead: number; windowTo?: number; threshold: number; direction: ThresholdDirection; radius: number; product: ProductName }
 
 function query(params: Record<string, string | number | boolean | undefined>): string {
   const q = new URLSearchParams()
@@ -86,9 +106,10 @@ export function useWorkspaceApi() {
     sampleImageUrl: (runId: number, lead: number, member: number, sample: number) => `/api/runs/${runId}/fields/sample.png?${query({ lead, member, sample })}`,
     summary: (runId: number, q: ProductQuery) => $fetch<ProductSummary>(`/api/runs/${runId}/products/summary?${query({ ...q })}`),
     point: (runId: number, q: ProductQuery, lon: number, lat: number) =>
-      $fetch<PointReadoutDto>(`/api/runs/${runId}/products/point?${query({ lead: q.lead, threshold: q.threshold, direction: q.direction, radius: q.radius, lon, lat })}`),
-    areaProducts: (runId: number, areaId: number, threshold: number, direction: ThresholdDirection) =>
-      $fetch<AreaProductsDto>(`/api/runs/${runId}/areas/${areaId}/products?${query({ threshold, direction })}`),
+      $fetch<PointReadoutDto>(`/api/runs/${runId}/products/point?${query({ lead: q.lead, windowTo: q.windowTo, threshold: q.threshold, direction: q.direction, radius: q.radius, lon, lat })}`),
+    /** Per lead time, and over the window windowFrom..windowTo (every lead time when not given). */
+    areaProducts: (runId: number, areaId: number, threshold: number, direction: ThresholdDirection, window: { windowFrom?: number; windowTo?: number } = {}) =>
+      $fetch<AreaProductsDto>(`/api/runs/${runId}/areas/${areaId}/products?${query({ threshold, direction, ...window })}`),
     listAreas: () => $fetch<{ areas: AreaDto[] }>('/api/areas'),
     createArea: (name: string, tags: string[], shape: AreaShape) => $fetch<{ area: AreaDto }>('/api/areas', { method: 'POST', body: { name, tags, ...shape } }),
     updateArea: (id: number, patch: { name?: string; tags?: string[] } & Partial<{ geometry: Polygon | MultiPolygon; circle: { centre: [number, number]; radiusKm: number }; rectangle: { west: number; south: number; east: number; north: number } }>) =>

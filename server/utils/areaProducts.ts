@@ -13,6 +13,7 @@ import { rasteriseOnAxes, rasteriseOnCells } from '../../shared/numerics/geo/ras
 import { fineCellCentresLonLat, locateFineCell } from './runGeometry'
 import { leadSamples, type LeadSamples, type RunPlacement, type RunRow } from './runSamples'
 import { eventPhrase, validTimeText } from './products'
+import { samplesAligned, windowMeaning } from './windowSamples'
 import type { AreaRowProducts } from '../../shared/schemas/products'
 
 export interface AreaOnGrid {
@@ -101,19 +102,6 @@ function productsOf(subs: EnsembleStack[], mask: AreaMask, entries: LeadSamples[
   }
 }
 
-/** What "any time in the window" counts: per scenario, and how the scenarios hang together in time. */
-function windowMeaning(entries: LeadSamples[]): string {
-  const base = 'At one or more of the window\'s valid times, counted per scenario (sample k of a member is the same scenario at every lead time)'
-  return entries.length && entries.every((e) => e.timeCoherent)
-    ? `${base}; the run was downscaled with time-coherent noise, so each sample's fine-scale detail is correlated from one lead time to the next.`
-    : `${base}; the fine-scale detail of each sample was drawn separately at each lead time, so only the coarse member links them.`
-}
-
-function aligned(entries: LeadSamples[]): boolean {
-  const first = entries[0]!
-  return entries.every((e) => e.memberIndices.join() === first.memberIndices.join() && e.sampleStart.join() === first.sampleStart.join())
-}
-
 /**
  * Area products for every lead time with samples, and for the window [windowFrom, windowTo]
  * ("at one or more of its valid times") when the samples are aligned across those lead times.
@@ -146,7 +134,7 @@ export async function areaProductsForRun(run: RunRow, placement: RunPlacement, g
   let windowResult = null
   let windowNote: string | undefined
   if (inWindow.length < 2) windowNote = 'The time window needs at least two lead times with samples.'
-  else if (!aligned(inWindow.map((x) => x.e))) windowNote = 'The lead times of the window do not hold the same members and samples, so no window probability is given.'
+  else if (!samplesAligned(inWindow.map((x) => x.e))) windowNote = 'The lead times of the window do not hold the same members and samples, so no window probability is given.'
   else {
     windowResult = {
       from: inWindow[0]!.e.leadIndex, to: inWindow[inWindow.length - 1]!.e.leadIndex,

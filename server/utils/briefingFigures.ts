@@ -10,7 +10,8 @@ import { SEREVAN_COAST } from '../../shared/demo/region'
 import type { BriefingFigure } from '../../shared/schemas/briefings'
 import type { ImageLine } from './productImage'
 import { pictureLines, renderProductImage, type ProductLegend } from './products'
-import { leadSamples, runPlacement, type RunRow } from './runSamples'
+import { runPlacement, type RunRow } from './runSamples'
+import { windowLeadSamples } from './windowSamples'
 
 type Ring = [number, number][]
 
@@ -60,7 +61,7 @@ const HALO: ImageLine['colour'] = [255, 255, 255, 230]
 /** One figure as a PNG (about 2 pixels per fine cell, at most 1024 wide) with its legend. */
 export async function renderBriefingFigure(run: RunRow, figure: BriefingFigure, areas: FigureArea[], width = 900): Promise<RenderedFigure> {
   const placement = runPlacement(run)
-  const entry = await leadSamples(run, figure.leadIndex)
+  const entry = await windowLeadSamples(run, figure.leadIndex, figure.windowTo ?? undefined, figure.direction)
   const coast = ringsNear(worldLandRings(), placement.bounds)
   const areaRings = areas.flatMap((a) => a.geometry.coordinates.flatMap((poly) => poly as Ring[]))
   const lines: ImageLine[] = [

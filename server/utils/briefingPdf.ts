@@ -175,6 +175,7 @@ function figureSection(input: BriefingPdfInput, images: Record<string, string>):
       block.push({ image: name, fit: [499, 330], alignment: 'center' })
       block.push(legendTable(rendered))
       if (rendered.legend.explanation) block.push({ text: rendered.legend.explanation, fontSize: 9, color: MIST })
+      if (rendered.legend.windowNote) block.push({ text: rendered.legend.windowNote, fontSize: 9, color: MIST })
       block.push({ text: `Classes are labelled in percent; "no scenario" (hatched) means none of the scenarios showed it there. ${rendered.basemapNote}`, fontSize: 9, color: MIST })
       if (rendered.legend.missingNote) block.push({ text: rendered.legend.missingNote, fontSize: 9, color: MIST })
     } else {

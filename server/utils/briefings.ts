@@ -45,13 +45,17 @@ function checkWindow(run: RunRow, selection: Pick<BriefingSelection, 'leadFrom' 
 }
 
 function checkFigures(run: RunRow, figures: BriefingFigure[]): void {
-  for (const f of figures) if (f.leadIndex >= run.leadTimes.length) throw unprocessable(`A map asks for lead time ${f.leadIndex + 1}; the run has ${run.leadTimes.length}.`)
+  for (const f of figures) {
+    const last = Math.max(f.leadIndex, f.windowTo ?? f.leadIndex)
+    if (last >= run.leadTimes.length) throw unprocessable(`A map asks for lead time ${last + 1}; the run has ${run.leadTimes.length}.`)
+  }
 }
 
-/** One probability map per threshold (at most three) at the end of the window. */
+/** One probability map per threshold (at most three) over the briefing's window: the event at any of its valid times. */
 function defaultFigures(selection: BriefingSelection): BriefingFigure[] {
   return selection.thresholds.slice(0, 3).map((t) => ({
-    leadIndex: selection.leadTo, product: 'probability' as const, threshold: t.value, direction: t.direction, radiusKm: 0, caption: '',
+    leadIndex: selection.leadFrom, windowTo: selection.leadTo > selection.leadFrom ? selection.leadTo : null,
+    product: 'probability' as const, threshold: t.value, direction: t.direction, radiusKm: 0, caption: '',
   }))
 }
 

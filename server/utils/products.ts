@@ -19,6 +19,7 @@ import { isProbabilityProduct, NEP_NMEP_EXPLANATION, type DisplayClass, type Poi
 export type { DisplayClass, PointReadout }
 import { cachedProbabilityMaps, leadSamples, runForProducts, runPlacement, type LeadSamples, type RunPlacement, type RunRow } from './runSamples'
 import { locateFineCell, parentCoarseCell, type FineGeometry } from './runGeometry'
+import { windowLeadSamples } from './windowSamples'
 import { encodePng, mercatorFrame, pixelCellTable, renderClasses, type ImageLine, type ImagePalette, type MercatorFrame } from './productImage'
 
 export interface ProductRequest {
@@ -36,6 +37,8 @@ export interface ProductLegend {
   classes: DisplayClass[]
   /** Shown with NEP and NMEP. */
   explanation?: string
+  /** For a time window: how "any time" is counted and how the scenarios link in time. */
+  windowNote?: string
   missingNote?: string
 }
 
@@ -103,6 +106,18 @@ export function validTimeText(run: Pick<RunRow, 'leadTimes' | 'cellMethods' | 'f
   return `valid ${utcHour(end)} UTC ${day}`
 }
 
+/**
+ * A time window in words: 'any' for events ("at any of the 4 valid times from 06 UTC 14 Nov 2031
+ * to 00 UTC 15 Nov 2031"), 'over' for the window's extreme values ("over the 4 valid times …");
+ * accumulations and other period values say "periods" and give each end period.
+ */
+export function windowTimeText(run: Pick<RunRow, 'leadTimes' | 'cellMethods' | 'forecastPeriodsHours'>, from: number, to: number, kind: 'any' | 'over'): string {
+  const first = validTimeText(run, from).replace(/^valid /, ''), last = validTimeText(run, to).replace(/^valid /, '')
+  const periods = /time:\s*(sum|mean|maximum|minimum)/.test(run.cellMethods ?? '')
+  const count = `${to - from + 1} ${periods ? 'periods' : 'valid times'}`
+  return `${kind === 'any' ? `${periods ? 'in' : 'at'} any of the` : 'over the'} ${count} from ${first} to ${last}`
+}
+
 function periodHours(run: Pick<RunRow, 'leadTimes' | 'forecastPeriodsHours'>, leadIndex: number): number | null {
   if (leadIndex > 0) return (Date.parse(run.leadTimes[leadIndex]!) - Date.parse(run.leadTimes[leadIndex - 1]!)) / 3600_000
   if (run.leadTimes.length > 1) return (Date.parse(run.leadTimes[1]!) - Date.parse(run.leadTimes[0]!)) / 3600_000
@@ -116,8 +131,10 @@ function scenarioText(entry: LeadSamples): string {
 
 /** The sentence naming exactly what a map shows. */
 export function legendTitle(run: RunRow, entry: LeadSamples, placement: RunPlacement, request: ProductRequest): string {
-  const when = validTimeText(run, entry.leadIndex)
+  const valueProduct = !isProbabilityProduct(request.product)
+  const when = entry.window ? windowTimeText(run, entry.window.from, entry.window.to, valueProduct ? 'over' : 'any') : validTimeText(run, entry.leadIndex)
   const event = eventPhrase(run, request.threshold, request.direction)
+  const noun = entry.window ? `the ${entry.window.extreme === 'max' ? 'highest' : 'lowest'} value of ${quantityName(run).noun}` : quantityName(run).noun
   const radius = `${formatNumber(request.radiusKm)} km`
   const cell = `${formatNumber(placement.geometry.spacingKm)} km`
   const what = (() => {
@@ -125,11 +142,11 @@ export function legendTitle(run: RunRow, entry: LeadSamples, placement: RunPlace
       case 'probability': return `Probability that ${event}, per ${cell} cell`
       case 'nmep': return request.radiusKm > 0 ? `Probability that ${event} somewhere within ${radius} (NMEP)` : `Probability that ${event}, per ${cell} cell (radius 0: NMEP is the per-cell probability)`
       case 'nep': return request.radiusKm > 0 ? `Expected share of the area within ${radius} where ${event} (NEP)` : `Probability that ${event}, per ${cell} cell (radius 0: NEP is the per-cell probability)`
-      case 'mean': return `Ensemble mean of ${quantityName(run).noun} (${run.displayUnits})`
-      case 'spread': return `Ensemble spread (standard deviation) of ${quantityName(run).noun} (${run.displayUnits})`
-      case 'p10': return `10th percentile of ${quantityName(run).noun} (${run.displayUnits}): 9 in 10 scenarios are higher`
-      case 'p50': return `Median of ${quantityName(run).noun} (${run.displayUnits}): half the scenarios are higher`
-      case 'p90': return `90th percentile of ${quantityName(run).noun} (${run.displayUnits}): 1 in 10 scenarios is higher`
+      case 'mean': return `Ensemble mean of ${noun} (${run.displayUnits})`
+      case 'spread': return `Ensemble spread (standard deviation) of ${noun} (${run.displayUnits})`
+      case 'p10': return `10th percentile of ${noun} (${run.displayUnits}): 9 in 10 scenarios are higher`
+      case 'p50': return `Median of ${noun} (${run.displayUnits}): half the scenarios are higher`
+      case 'p90': return `90th percentile of ${noun} (${run.displayUnits}): 1 in 10 scenarios is higher`
     }
   })()
   return `${what}, ${when} — ${scenarioText(entry)}`
@@ -197,10 +214,11 @@ export function valueClassOf(v: number, classes: DisplayClass[]): number {
 export function productLegend(run: RunRow, entry: LeadSamples, placement: RunPlacement, request: ProductRequest, values?: Float64Array): ProductLegend {
   const title = legendTitle(run, entry, placement, request)
   const missingNote = entry.missing ? 'Cells left clear inside the grid had no coarse value in at least one member.' : undefined
+  const windowNote = entry.window?.meaning
   if (isProbabilityProduct(request.product)) {
     const classes = probabilityDisplayClasses(classesForEnsemble(entry.plan.n, entry.memberIndices.length))
     const explanation = request.product === 'probability' ? undefined : NEP_NMEP_EXPLANATION
-    return { kind: 'probability', title, units: '%', classes, explanation, missingNote }
+    return { kind: 'probability', title, units: '%', classes, explanation, missingNote, windowNote }
   }
   let [min, max] = entry.valueRange
   if (request.product === 'spread') {
@@ -209,7 +227,7 @@ export function productLegend(run: RunRow, entry: LeadSamples, placement: RunPla
     max = 0
     for (let k = 0; k < spread.length; k++) if (spread[k]! > max) max = spread[k]!
   }
-  return { kind: 'value', title, units: run.displayUnits, classes: valueDisplayClasses(min, max, run.displayUnits), missingNote }
+  return { kind: 'value', title, units: run.displayUnits, classes: valueDisplayClasses(min, max, run.displayUnits), missingNote, windowNote }
 }
 
 /** Class index per fine cell (−1 where the cell is missing). */
@@ -354,12 +372,24 @@ export function pointReadout(run: RunRow, entry: LeadSamples, placement: RunPlac
 
 // --- Request context -------------------------------------------------------------------------
 
-/** The run, its fine-grid placement and one lead time's samples, for a products request. */
-export async function productContext(runId: number, leadIndex: number) {
+/**
+ * The run, its fine-grid placement and the samples of one lead time — or, with windowTo after the
+ * lead, of the time window lead..windowTo (each scenario's extreme in the event's direction).
+ */
+export async function productContext(runId: number, leadIndex: number, window?: { to?: number; direction: Direction }) {
   const run = await runForProducts(runId)
   const placement = runPlacement(run)
-  const entry = await leadSamples(run, leadIndex)
+  const entry = window ? await windowLeadSamples(run, leadIndex, window.to, window.direction) : await leadSamples(run, leadIndex)
   return { run, placement, entry }
+}
+
+/** The "lead" part of a products answer: the lead time, or the window with its words. */
+export function leadDescription(run: RunRow, entry: LeadSamples) {
+  const w = entry.window
+  return {
+    index: entry.leadIndex, validTime: run.leadTimes[entry.leadIndex]!, when: w ? windowTimeText(run, w.from, w.to, 'any') : validTimeText(run, entry.leadIndex),
+    window: w ? { from: w.from, to: w.to, extreme: w.extreme, validTimes: run.leadTimes.slice(w.from, w.to + 1), timeCoherent: entry.timeCoherent, meaning: w.meaning } : null,
+  }
 }
 
 /** Response headers that say what an image shows (percent-encoded UTF-8 where text). */

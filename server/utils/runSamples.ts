@@ -39,6 +39,11 @@ export interface LeadSamples {
   loadMs: number
   /** Recently computed probability maps, keyed by threshold, direction and radius (cells). */
   maps: Map<string, ProbabilityMaps>
+  /**
+   * Set when the entry stands for a time window (windowSamples.ts): lead times from..to, each
+   * scenario's per-cell extreme over them, and the sentence saying how scenarios link in time.
+   */
+  window?: { from: number; to: number; extreme: 'max' | 'min'; meaning: string }
 }
 
 export interface RunPlacement {

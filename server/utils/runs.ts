@@ -7,6 +7,7 @@ import { recordAudit } from './audit'
 import { enqueueTasks } from './jobs'
 import { createRunTasks, insertParsedRun } from './runRecords'
 import { forgetRunSamples } from './runSamples'
+import { forgetRunWindows } from './windowSamples'
 import { maxUploadBytes, receiveUpload } from './uploads'
 import { IngestError, readEnsembleFromPath, summariseRun, type EnsembleRun } from '../ingest'
 import { estimateSampleBytes, type DownscaleSettingsInput } from '../../shared/schemas/runs'
@@ -87,6 +88,7 @@ export async function startDownscaling(event: H3Event, user: User, id: number, i
   // Jobs are sent after the commit; a task without a job is re-queued by the worker's sweeper.
   await enqueueTasks(taskIds)
   forgetRunSamples(id)
+  forgetRunWindows(id)
   return getRun(id)
 }
 
@@ -117,6 +119,7 @@ export async function deleteRun(event: H3Event, user: User, id: number) {
     throw conflict('Cancel the downscaling before deleting the run.')
   }
   forgetRunSamples(id)
+  forgetRunWindows(id)
   await recordAudit({ actor: user, action: 'run.delete', entityType: 'run', entityId: id, before: runSummary(row) }, event)
 }
 

@@ -53,9 +53,11 @@ export interface BriefingStatement {
   included: boolean
 }
 
-/** A map figure: one product of one lead time, rendered by the product renderer into the PDF. */
+/** A map figure: one product of one lead time or time window, rendered by the product renderer into the PDF. */
 export interface BriefingFigure {
   leadIndex: number
+  /** Last lead index of a window from leadIndex (event at any of its valid times); null or absent = one lead time. */
+  windowTo?: number | null
   product: 'probability' | 'nmep' | 'nep'
   threshold: number
   direction: 'above' | 'below'
@@ -128,12 +130,14 @@ export const selectionSchema = z.object({
 
 export const figureSchema = z.object({
   leadIndex: z.number().int().min(0),
+  /** Last lead index of a time window from leadIndex ("at any of its valid times"); null = leadIndex alone. */
+  windowTo: z.number().int().min(0).nullable().default(null),
   product: z.enum(['probability', 'nmep', 'nep']),
   threshold: z.number().refine(Number.isFinite),
   direction: z.enum(['above', 'below']),
   radiusKm: z.number().min(0).max(200).default(0),
   caption: text(300).default(''),
-})
+}).refine((f) => f.windowTo === null || f.windowTo >= f.leadIndex, 'A map\'s time window must end at or after its first valid time.')
 
 export const createBriefingSchema = z.object({
   runId: z.number().int().positive(),

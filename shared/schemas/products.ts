@@ -140,6 +140,8 @@ export type ThresholdSetInput = z.infer<typeof thresholdSetSchema>
 export const runLeadParamsSchema = z.object({ id: z.coerce.number().int().positive() })
 
 const leadQuery = { lead: z.coerce.number().int().min(0).default(0) }
+/** A time window from `lead` to `windowTo` (inclusive): products count an event at any of its valid times. */
+const windowQuery = { windowTo: z.coerce.number().int().min(0).optional() }
 const thresholdQuery = {
   threshold: finite.default(0),
   direction: z.enum(['above', 'below']).default('above'),
@@ -151,14 +153,14 @@ const thresholdQuery = {
 export const MAX_IMAGE_WIDTH = 2048
 
 export const mapQuerySchema = z.object({
-  ...leadQuery, ...thresholdQuery,
+  ...leadQuery, ...windowQuery, ...thresholdQuery,
   product: z.enum(PRODUCTS).default('probability'),
   width: z.coerce.number().int().min(16).max(MAX_IMAGE_WIDTH).optional(),
   boundaries: z.enum(['0', '1']).default('1'),
 })
-export const summaryQuerySchema = z.object({ ...leadQuery, ...thresholdQuery, product: z.enum(PRODUCTS).default('probability') })
+export const summaryQuerySchema = z.object({ ...leadQuery, ...windowQuery, ...thresholdQuery, product: z.enum(PRODUCTS).default('probability') })
 export const pointQuerySchema = z.object({
-  ...leadQuery, ...thresholdQuery,
+  ...leadQuery, ...windowQuery, ...thresholdQuery,
   lon: z.coerce.number().min(-360).max(360),
   lat: z.coerce.number().min(-90).max(90),
 })

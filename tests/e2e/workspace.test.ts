@@ -86,6 +86,13 @@ describe('map workspace', () => {
     await page.getByTestId('readout-go').click()
     await expect(page.getByTestId('readout-probability').textContent({ timeout: 30_000 })).resolves.toMatch(/of 12 scenarios; \d+ of 3 members/)
 
+    // A time window: the map, legend and the area's window row follow it.
+    await page.getByTestId('window-to').selectOption('1')
+    await page.getByText('per 5.5 km cell, at any of the 2 valid times from 06 UTC 14 Nov 2031 to 12 UTC 14 Nov 2031', { exact: false }).first().waitFor({ timeout: 30_000 })
+    await expect(page.getByTestId('legend-window').textContent()).resolves.toMatch(/counted per scenario/)
+    await page.waitForFunction("document.querySelector('[data-testid=map-image-ready]')?.textContent?.includes('windowTo=1')", undefined, { timeout: 30_000 })
+    await expect(article.getByTestId('cell-window-anywhere').textContent({ timeout: 30_000 })).resolves.toMatch(/\d+ %/)
+
     const file = await screenshot(page, 'workspace-page')
     const mapFile = file.replace('workspace-page', 'workspace-map')
     await page.getByTestId('workspace-map-frame').screenshot({ path: mapFile })

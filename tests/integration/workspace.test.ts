@@ -120,6 +120,79 @@ describe('products of a run', () => {
     expect(r.neighbourhood.nep).toBeCloseTo(nep, 12)
   })
 
+  it('time window: per-cell and neighbourhood "at any valid time" products and the window extreme equal brute force', async () => {
+    const [i, j] = [14, 9]
+    const T = 14.05, R = 12, n = 12
+    const at = (t: number, s: number, k: number) => samplesAt(t)[s]![k]!
+    for (const direction of ['above', 'below'] as const) {
+      const q = `lead=0&windowTo=1&threshold=${T}&direction=${direction}&radius=${R}`
+      const res = await call('GET', `/api/runs/${run.id}/products/point?${q}&lon=${fineLon(i)}&lat=${fineLat(j)}`, { cookie: cookies.forecaster })
+      expect(res.status, JSON.stringify(res.body)).toBe(200)
+      const r = res.body
+      expect(r.lead.window).toMatchObject({ from: 0, to: 1, extreme: direction === 'above' ? 'max' : 'min', timeCoherent: false })
+      const k0 = j * fnx() + i
+      const hit = (s: number, k: number) => [0, 1].some((t) => crosses(at(t, s, k), T, direction))
+      const scenarios = Array.from({ length: n }, (_, s) => s)
+      expect(r.probability.count).toBe(scenarios.filter((s) => hit(s, k0)).length)
+      // The window's extreme per scenario: its percentiles are what the value rows show.
+      const extreme = scenarios.map((s) => (direction === 'above' ? Math.max : Math.min)(at(0, s, k0), at(1, s, k0)))
+      expect(r.value.p50).toBeCloseTo(quantile7(extreme, 0.5), 3)
+      const rc = R / 5.5
+      const disk: number[] = []
+      for (let jj = 0; jj < fny(); jj++) for (let ii = 0; ii < fnx(); ii++) if ((ii - i) ** 2 + (jj - j) ** 2 <= rc * rc) disk.push(jj * fnx() + ii)
+      expect(r.neighbourhood.nmepCount).toBe(scenarios.filter((s) => disk.some((k) => hit(s, k))).length)
+      // Summary: class counts of the per-cell window probability over the whole grid (classes of 1/3, "no scenario" first).
+      const sum = await call('GET', `/api/runs/${run.id}/products/summary?${q}&product=probability`, { cookie: cookies.forecaster })
+      expect(sum.status).toBe(200)
+      const expected = [0, 0, 0, 0]
+      for (let jj = 0; jj < fny(); jj++) for (let ii = 0; ii < fnx(); ii++) {
+        if (isMissing(ii, jj)) continue
+        const count = scenarios.filter((s) => hit(s, jj * fnx() + ii)).length
+        const c = count === 0 ? 0 : [1, 2, 3].find((c) => count / n <= c / 3 + 1e-9)!
+        expected[c]!++
+      }
+      expect(sum.body.classCounts).toEqual(expected)
+      const verb = direction === 'above' ? 'reach 14.05 m/s or more' : 'fall to 14.05 m/s or lower'
+      expect(sum.body.legend.title).toBe(`Probability that gusts ${verb}, per 5.5 km cell, at any of the 2 valid times from 06 UTC 14 Nov 2031 to 12 UTC 14 Nov 2031 — 3 members × 4 samples`)
+      expect(sum.body.legend.windowNote).toMatch(/drawn separately at each lead time/)
+    }
+    const single = await call('GET', `/api/runs/${run.id}/products/summary?lead=1&windowTo=1&threshold=${T}`, { cookie: cookies.forecaster })
+    expect(single.body.lead.window).toBeNull()
+    const backwards = await call('GET', `/api/runs/${run.id}/products/summary?lead=1&windowTo=0&threshold=${T}`, { cookie: cookies.forecaster })
+    expect(backwards.status).toBe(400)
+    expect(backwards.body.message).toMatch(/must end at or after/)
+    const mean = await call('GET', `/api/runs/${run.id}/products/summary?lead=0&windowTo=1&threshold=${T}&product=mean`, { cookie: cookies.forecaster })
+    expect(mean.body.legend.title).toMatch(/^Ensemble mean of the highest value of gusts \(m\/s\), over the 2 valid times from 06 UTC/)
+  })
+
+  it('summary: the fitted correlation shape of the lead time (median of members, axial mean angle) as a ring on the grid', async () => {
+    const t = tables.runTasks
+    const shapes = [
+      { lengthScale: 4, anisotropy: { adopted: true, majorLengthScale: 6, minorLengthScale: 3, angle: 0.5 } },
+      { lengthScale: 5, anisotropy: { adopted: true, majorLengthScale: 8, minorLengthScale: 4, angle: 0.6 } },
+      { lengthScale: 3, anisotropy: { adopted: false, majorLengthScale: 3, minorLengthScale: 3, angle: 0 } },
+    ]
+    for (const [m, fit] of shapes.entries()) {
+      await useDB().update(t).set({ fit: { ...fit, transform: { name: 'none' } } }).where(sql`${t.runId} = ${run.id} and ${t.leadIndex} = 0 and ${t.memberIndex} = ${m}`)
+    }
+    try {
+      const res = await call('GET', `/api/runs/${run.id}/products/summary?lead=0`, { cookie: cookies.forecaster })
+      const st = res.body.structure
+      expect(st).toMatchObject({ members: 3, anisotropic: 2, transform: 'none' })
+      // Medians over the adopted members: ℓ₁ = (6 + 8)/2, ℓ₂ = (3 + 4)/2 fine cells of 5.5 km; angle = axial mean of 0.5 and 0.6 rad.
+      expect(st.majorKm).toBeCloseTo(7 * 5.5, 9)
+      expect(st.minorKm).toBeCloseTo(3.5 * 5.5, 9)
+      expect(st.angleDegrees).toBeCloseTo((0.55 * 180) / Math.PI, 9)
+      expect(st.ring).toHaveLength(65)
+      expect(st.ring[0]).toEqual(st.ring[64])
+      const [west, south, east, north] = res.body.grid.bounds
+      for (const [lon, lat] of st.ring) { expect(lon).toBeGreaterThanOrEqual(west); expect(lon).toBeLessThanOrEqual(east); expect(lat).toBeGreaterThanOrEqual(south); expect(lat).toBeLessThanOrEqual(north) }
+      expect((await call('GET', `/api/runs/${run.id}/products/summary?lead=1`, { cookie: cookies.forecaster })).body.structure).toBeNull()
+    } finally {
+      await useDB().update(t).set({ fit: null }).where(sql`${t.runId} = ${run.id}`)
+    }
+  })
+
   it('point: outside the grid and on a missing cell say so', async () => {
     const outside = await call('GET', `/api/runs/${run.id}/products/point?lon=10&lat=10`, { cookie: cookies.forecaster })
     expect(outside.body.inside).toBe(false)

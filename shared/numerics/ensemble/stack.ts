@@ -53,7 +53,8 @@ export function cellCount(stack: EnsembleStack): number {
  * Element-wise extreme over lead times of several sample-aligned stacks:
  * out.members[m][k] = max (or min) over t of stacks[t].members[m][k].
  * The per-pixel exceedance of the 'max' stack is P(x ≥ T at some time in the window);
- * use 'min' with direction 'below'.
+ * use 'min' with direction 'below'. The result is Float32 when every input grid is (the extreme of
+ * Float32 values is one of them, so nothing is rounded), else Float64.
  */
 export function timeExtremeStack(stacks: readonly EnsembleStack[], extreme: 'max' | 'min'): EnsembleStack {
   if (stacks.length === 0) throw new Error('a time window needs at least one lead time')
@@ -63,9 +64,10 @@ export function timeExtremeStack(stacks: readonly EnsembleStack[], extreme: 'max
     if (s.nx !== nx || s.ny !== ny) throw new Error(`lead time ${t} has grid ${s.nx}×${s.ny}, expected ${nx}×${ny}`)
     if (s.members.length !== n) throw new Error(`lead time ${t} has ${s.members.length} samples, expected ${n} (samples must be aligned)`)
   })
-  const members: Float64Array[] = []
+  const single = stacks.every((s) => s.members.every((g) => g instanceof Float32Array))
+  const members: Grid[] = []
   for (let m = 0; m < n; m++) {
-    const out = Float64Array.from(stacks[0]!.members[m]!)
+    const out = single ? Float32Array.from(stacks[0]!.members[m]!) : Float64Array.from(stacks[0]!.members[m]!)
     for (let t = 1; t < stacks.length; t++) {
       const g = stacks[t]!.members[m]!
       if (extreme === 'max') { for (let k = 0; k < out.length; k++) if (g[k]! > out[k]!) out[k] = g[k]! }

@@ -56,6 +56,15 @@ describe('per-pixel exceedance probability', () => {
     expect(() => checkStack({ nx: 2, ny: 2, members: [] })).toThrow('no members')
   })
 
+  it('time-window extreme keeps Float32 grids Float32 and exact (the extreme is one of the inputs)', () => {
+    const a = { nx: 2, ny: 1, members: [Float32Array.of(0.1, 5)] }
+    const b = { nx: 2, ny: 1, members: [Float32Array.of(0.3, 2)] }
+    const max = timeExtremeStack([a, b], 'max')
+    expect(max.members[0]).toBeInstanceOf(Float32Array)
+    expect(Array.from(max.members[0]!)).toEqual([Math.fround(0.3), 5])
+    expect(timeExtremeStack([a, { nx: 2, ny: 1, members: [Float64Array.of(0.3, 2)] }], 'min').members[0]).toBeInstanceOf(Float64Array)
+  })
+
   it('time-window extreme: P(x ≥ T at some time) per pixel equals the brute-force share of samples', () => {
     const leads = [randomStack(1, 4, 3, 9), randomStack(2, 4, 3, 9), randomStack(3, 4, 3, 9)]
     const t = 6

@@ -5,7 +5,7 @@ export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin', 'duty_lead', 'forecaster')
   const { id } = await getValidatedRouterParams(event, runLeadParamsSchema.parse)
   const q = await getValidatedQuery(event, mapQuerySchema.parse)
-  const { run, placement, entry } = await productContext(id, q.lead)
+  const { run, placement, entry } = await productContext(id, q.lead, { to: q.windowTo, direction: q.direction })
   const image = renderProductImage(run, entry, placement,
     { product: q.product, threshold: q.threshold, direction: q.direction, radiusKm: q.radius },
     { width: q.width, boundaries: q.boundaries === '1' })
