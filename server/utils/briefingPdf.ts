@@ -218,8 +218,30 @@ function methodText(m: BriefingMethod | null): string {
     `That gives ${m.scenarios} scenarios in all (${m.members} members × ${m.samplesPerMember ?? '?'} each).`,
     'A probability here is the share of those scenarios in which the event happens. "Anywhere" counts a scenario when the threshold is reached at one or more grid cells of the area; "area average" when the average over the area reaches it;',
     '"share of the area" is the expected fraction of the area where it is reached. Thresholds include the value itself. Over a time window, a scenario counts when the event happens at one or more of the window\'s times.',
+    ...extensionSentences(m),
     `Differences smaller than 1 in ${m.scenarios} carry no meaning.`,
   ].join(' ')
+}
+
+const TRANSFORM_WORDS: Record<string, string> = {
+  boxcox: 'a fitted power (Box–Cox) transform of the values',
+  log: 'the logarithm of the values',
+  censored: 'a hidden Gaussian field that is dry wherever it is below zero (a censored model), so no scenario has negative amounts',
+}
+
+/** What the engine's extensions did to the numbers, in plain words (nothing for briefings written before they existed). */
+export function extensionSentences(m: BriefingMethod): string[] {
+  const x = m.extensions
+  if (!x) return []
+  const out: string[] = []
+  const transforms = x.transforms.filter((t) => t !== 'none').map((t) => TRANSFORM_WORDS[t] ?? t)
+  if (transforms.length) out.push(`The correlation model was fitted to ${transforms.join('; or to ')}, and each scenario was turned back into ${m.units} with its coarse averages kept.`)
+  if (x.anisotropicFits) out.push(`In ${x.anisotropicFits} of ${x.fits} member fits the correlation was stretched along one direction (a fitted ellipse, not a circle).`)
+  if (x.regimeFits) out.push(`In ${x.regimeFits} of ${x.fits} member fits the length scale was allowed to change across the domain (fitted on overlapping windows and blended).`)
+  out.push(x.timeScaleHours !== null
+    ? `The fine-scale detail of a scenario was drawn with noise correlated from one lead time to the next (decorrelation time about ${Math.round(x.timeScaleHours)} h, fitted from the members), so a scenario hangs together in time.`
+    : 'The fine-scale detail of each scenario was drawn separately at each lead time, so only the coarse member links a scenario\'s times; chances "at any time" in a window may then be somewhat high for small areas.')
+  return out
 }
 
 /** The pdfmake document definition (exported for tests that inspect structure). */

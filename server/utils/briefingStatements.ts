@@ -51,7 +51,9 @@ function areaMeanMembers(entries: LeadSamples[], cells: Int32Array, threshold: n
 /** The run facts the method section prints (fitted kernels and length-scale range over members). */
 export async function briefingMethodFacts(run: RunRow): Promise<BriefingMethod> {
   const { run: summary, tasks } = await getRun(run.id)
-  const fits = tasks.filter((t) => t.status === 'done' && t.fit).map((t) => t.fit as { kernel?: string; lengthScaleKm?: number })
+  const fits = tasks.filter((t) => t.status === 'done' && t.fit).map((t) => t.fit as {
+    kernel?: string; lengthScaleKm?: number; transform?: { name?: string }; anisotropy?: { adopted?: boolean }; regimes?: { used?: boolean }
+  })
   const lengths = fits.map((f) => f.lengthScaleKm).filter((v): v is number => typeof v === 'number' && Number.isFinite(v))
   const factor = run.settings!.factor
   const samplesPerMember = run.settings!.samplesPerMember
@@ -62,6 +64,13 @@ export async function briefingMethodFacts(run: RunRow): Promise<BriefingMethod> 
     kernels: [...new Set(fits.map((f) => f.kernel).filter((k): k is string => !!k))].sort(),
     lengthScaleKm: lengths.length ? [Math.min(...lengths), Math.max(...lengths)] : null,
     quantity: run.standardName ?? run.variable, units: run.displayUnits, leadTimes: run.leadTimes,
+    extensions: {
+      transforms: [...new Set(fits.map((f) => f.transform?.name ?? 'none'))].sort(),
+      anisotropicFits: fits.filter((f) => f.anisotropy?.adopted).length,
+      regimeFits: fits.filter((f) => f.regimes?.used).length,
+      fits: fits.length,
+      timeScaleHours: run.settings!.timeCoherence && Number.isFinite(run.settings!.timeScaleHours) ? run.settings!.timeScaleHours! : null,
+    },
   }
 }
 

@@ -92,6 +92,18 @@ export interface BriefingMethod {
   quantity: string
   units: string
   leadTimes: string[]
+  /**
+   * Engine extensions the run used (absent in briefings written before they existed): the latent
+   * transforms of the member fits, how many fits adopted a stretched (anisotropic) correlation, how
+   * many used locally fitted regimes, and the decorrelation time of time-coherent noise (null = none).
+   */
+  extensions?: {
+    transforms: string[]
+    anisotropicFits: number
+    regimeFits: number
+    fits: number
+    timeScaleHours: number | null
+  }
 }
 
 export interface BriefingLocalTime { name: string; offsetMinutes: number }

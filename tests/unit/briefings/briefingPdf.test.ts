@@ -6,7 +6,7 @@ import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { PNG } from 'pngjs'
-import { briefingDocDefinition, renderBriefingPdf, type BriefingPdfInput } from '../../../server/utils/briefingPdf'
+import { briefingDocDefinition, extensionSentences, renderBriefingPdf, type BriefingPdfInput } from '../../../server/utils/briefingPdf'
 import { LIKELIHOOD_SCALES, statementSentence } from '../../../shared/utils/likelihood'
 
 function mapPng(width: number, height: number): Buffer {
@@ -133,5 +133,28 @@ describe('briefing PDF', () => {
     }
     // The 300×200 map drawn into the page at 60 dpi covers thousands of strongly coloured pixels.
     expect(coloured).toBeGreaterThan(3000)
+  })
+})
+
+describe('method text: engine extensions', () => {
+  const base = {
+    runId: 1, runName: 'r', referenceTime: null, isDemo: false, members: 4, samplesPerMember: 3, scenarios: 12, factor: 8,
+    coarseSpacingKm: 20, fineSpacingKm: 2.5, kernels: ['matern32'], lengthScaleKm: [10, 12] as [number, number], quantity: 'precipitation_amount', units: 'mm', leadTimes: [],
+  }
+  it('says nothing for briefings written before the extensions existed', () => {
+    expect(extensionSentences(base)).toEqual([])
+  })
+  it('names the censored transform, stretched fits and time-coherent noise with its fitted time scale', () => {
+    const text = extensionSentences({ ...base, extensions: { transforms: ['censored'], anisotropicFits: 3, regimeFits: 0, fits: 16, timeScaleHours: 8.6 } }).join(' ')
+    expect(text).toMatch(/no scenario has negative amounts/)
+    expect(text).toMatch(/In 3 of 16 member fits the correlation was stretched/)
+    expect(text).not.toMatch(/allowed to change across the domain/)
+    expect(text).toMatch(/decorrelation time about 9 h/)
+  })
+  it('warns that window chances may run high when the detail was drawn separately at each lead time', () => {
+    const text = extensionSentences({ ...base, extensions: { transforms: ['none'], anisotropicFits: 0, regimeFits: 2, fits: 16, timeScaleHours: null } }).join(' ')
+    expect(text).toMatch(/drawn separately at each lead time/)
+    expect(text).toMatch(/In 2 of 16 member fits the length scale was allowed to change/)
+    expect(text).not.toMatch(/fitted to/)
   })
 })
