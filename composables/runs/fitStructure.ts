@@ -127,11 +127,12 @@ export function isLatentFit(fit: TaskFit | null | undefined): boolean {
   return Boolean(fit?.transform && fit.transform.name !== 'none')
 }
 
-/** "Box–Cox λ = 0.42 (fitted)", "log", "censored power λ = 0.50 (set)"; null for no transform. */
+/** "Box–Cox λ = 0.42 (fitted)", "… (fitted, at upper bound)", "log", "censored power λ = 0.50 (set)"; null for no transform. */
 export function transformLabel(t: TaskTransform | undefined): string | null {
   if (!t || t.name === 'none') return null
   if (t.name === 'log') return 'log'
-  return `${TRANSFORM_NAMES[t.name]} λ = ${t.lambda.toFixed(2)} (${t.lambdaFitted ? 'fitted' : 'set'})`
+  const how = !t.lambdaFitted ? 'set' : t.lambdaAtBound ? `fitted, at ${t.lambdaAtBound} bound` : 'fitted'
+  return `${TRANSFORM_NAMES[t.name]} λ = ${t.lambda.toFixed(2)} (${how})`
 }
 
 /**

@@ -91,6 +91,7 @@ describe('latent transform', () => {
   it('labels λ per row and stays silent without a transform', () => {
     expect(transformLabel({ name: 'boxcox', lambda: 0.4213, lambdaFitted: true })).toBe('Box–Cox λ = 0.42 (fitted)')
     expect(transformLabel(censored({ lambdaFitted: false }))).toBe('censored power λ = 0.50 (set)')
+    expect(transformLabel({ name: 'boxcox', lambda: 2, lambdaFitted: true, lambdaAtBound: 'upper' })).toBe('Box–Cox λ = 2.00 (fitted, at upper bound)')
     expect(transformLabel({ name: 'log', lambda: 0, lambdaFitted: false })).toBe('log')
     expect(transformLabel({ name: 'none', lambda: 1, lambdaFitted: false })).toBeNull()
     expect(transformLabel(undefined)).toBeNull()
