@@ -5,6 +5,7 @@
 import type { MultiPolygon, Polygon } from 'geojson'
 import type { AreaRowProducts, DisplayClass, Hazard, PointReadout, ProductName, ThresholdDirection } from '#shared/schemas/products'
 import type { AreaRecord } from '#shared/schemas/areas'
+import type { LeadStructure } from '#shared/utils/correlationShape'
 
 export type DisplayClassDto = DisplayClass
 
@@ -17,15 +18,7 @@ export interface LeadDto {
 }
 
 /** Median fitted correlation shape of a lead time's members, with its ring for the map. */
-export interface StructureDto {
-  members: number
-  anisotropic: number
-  majorKm: number
-  minorKm: number
-  angleDegrees: number
-  transform: string
-  ring: [number, number][]
-}
+export type StructureDto = LeadStructure
 
 export interface ProductSummary {
   run: { id: number; name: string; isDemo: boolean; displayUnits: string; standardName: string | null; leadTimes: string[] }

@@ -4,22 +4,9 @@
  * drawn to scale in the grid's own coordinates so that rotated and projected grids show it right.
  */
 import { and, eq, sql } from 'drizzle-orm'
-import { ellipseOffsets, summariseShapes, type FittedShape } from '../../shared/utils/correlationShape'
+import { ellipseOffsets, summariseShapes, type FittedShape, type LeadStructure } from '../../shared/utils/correlationShape'
 import { useDB, tables } from './db'
 import type { RunPlacement, RunRow } from './runSamples'
-
-export interface LeadStructure {
-  members: number
-  anisotropic: number
-  majorKm: number
-  minorKm: number
-  /** Major axis from grid east toward grid north, degrees in [0, 180). */
-  angleDegrees: number
-  /** Transform of the fits ('none' when ℓ is of the values themselves, else of the latent field). */
-  transform: string
-  /** The ellipse as a closed [lon, lat] ring. */
-  ring: [number, number][]
-}
 
 /** The median fitted shape of lead `leadIndex`'s finished members, or null when none has a fit. */
 export async function leadStructure(run: RunRow, placement: RunPlacement, leadIndex: number): Promise<LeadStructure | null> {

@@ -5,6 +5,20 @@
  * Isotropic fits are circles (ℓ₁ = ℓ₂ = ℓ).
  */
 
+/** The median shape of a lead time as the products summary returns it (lengths in km), with its map ring. */
+export interface LeadStructure {
+  members: number
+  anisotropic: number
+  majorKm: number
+  minorKm: number
+  /** Major axis from grid east toward grid north, degrees in [0, 180). */
+  angleDegrees: number
+  /** Transform of the fits ('none' when ℓ is of the values themselves, else of the latent field; 'mixed'). */
+  transform: string
+  /** The ellipse as a closed [lon, lat] ring. */
+  ring: [number, number][]
+}
+
 /** What one task's fit says about the shape (from its stored fit JSON). */
 export interface FittedShape {
   /** Isotropic ℓ in fine cells (0 for an all-dry member: nothing fitted). */
