@@ -1,11 +1,8 @@
 /** Words and tones for briefing statuses and history entries (a word and an icon, never colour alone). */
 import type { BriefingEventAction, BriefingStatus } from '#shared/utils/briefingStates'
-import type { StatusInfo } from '~/composables/runs/display'
+import { STATUS_TONES, type StatusInfo } from '~/composables/runs/display'
 
-const NEUTRAL = 'border-ink-300 bg-ink-50 text-ink-900'
-const ACTIVE = 'border-tide-600 bg-tide-50 text-tide-800'
-const DONE = 'border-tide-700 bg-tide-100 text-tide-800'
-const ENDED = 'border-berry-700 bg-berry-50 text-berry-700'
+const { neutral: NEUTRAL, active: ACTIVE, done: DONE, error: ENDED } = STATUS_TONES
 
 export const BRIEFING_STATUS_INFO: Record<BriefingStatus, StatusInfo> = {
   draft: { label: 'Draft', icon: 'circle', tone: NEUTRAL, explanation: 'Being written; not yet submitted for approval.' },

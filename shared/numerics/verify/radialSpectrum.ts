@@ -47,7 +47,9 @@ export function ringIndex(p: number, q: number, nx: number, ny: number): number 
   // rho is within rounding of the boundary edge − ½: decide exactly whether 4(A² + B²) ≥ (2·edge − 1)²L².
   const l = BigInt(lcm(nx, ny))
   const A = (BigInt(p * m) * l) / BigInt(nx), B = (BigInt(q * m) * l) / BigInt(ny)
-  return 4n * (A * A + B * B) >= BigInt(2 * edge - 1) ** 2n * l * l ? edge : edge - 1
+  // BigInt(…) rather than literals: the server bundle targets a syntax level without BigInt literals.
+  const boundary = BigInt(2 * edge - 1)
+  return BigInt(4) * (A * A + B * B) >= boundary * boundary * l * l ? edge : edge - 1
 }
 
 function lcm(x: number, y: number): number {
