@@ -8,13 +8,14 @@
  *    anisotropy 'fit'; two regimes (ℓ = 1 coarse cell left, 4 right) for regimes 'windows'; and an isotropic
  *    stationary field for both, where neither extension should be used (cost of the check alone).
  *  - Gain, changing regimes: the two-regime scenario of tests/numerics/extensions/regimeScenario.ts at the
- *    test's configuration over 10 seeds (the runs the test thresholds come from), its stationary control, and a
- *    512² case (3 seeds): spectrum error and ensemble FSS per half, windowed vs stationary.
+ *    test's configuration over 10 seeds (the runs the test thresholds come from), its stationary control, and
+ *    two 512² cases (3 seeds): ℓ = 1 and 4 coarse cells, and the test's shape scaled up (ℓ = 0.5 and 3 coarse
+ *    cells): spectrum error and ensemble FSS per half, windowed vs stationary.
  *  - Gain, anisotropy: anisotropic truths (128² fine, b = 4; 5 seeds) downscaled with anisotropy 'off' and
  *    'fit': ensemble FSS and a direction-resolved spectrum error (mean |ln S̄/S_truth| over rings × four 45°
  *    sectors of wave direction); isotropic control.
  * Run: npx tsx -e "import('./bench/extensions.ts').then(m=>m.bench())"
- * Set TESSERA_EXT1_LARGE=off to skip the 1024² cost case.
+ * Set TESSERA_EXT1_LARGE=off to skip the 1024² cost case, TESSERA_EXT1_COST=off to skip every cost case.
  */
 import { createDownscaler } from '../shared/numerics/grf/downscaler'
 import type { KernelParams } from '../shared/numerics/grf/kernels'
@@ -164,13 +165,15 @@ export async function bench(): Promise<Figures> {
   const out: Figures = {}
   const rows: string[] = []
   rows.push('cost, one member (fit + 10 samples, Matérn-3/2, b = 8), extension vs basic back to back:')
-  costCase(64, 3, out, rows)
-  if (process.env.TESSERA_EXT1_LARGE !== 'off') costCase(128, 1, out, rows)
+  if (process.env.TESSERA_EXT1_COST !== 'off') costCase(64, 3, out, rows)
+  if (process.env.TESSERA_EXT1_COST !== 'off' && process.env.TESSERA_EXT1_LARGE !== 'off') costCase(128, 1, out, rows)
   rows.push('gain, changing regimes (windowed vs stationary; spectrum error: lower is better):')
   const seeds = [100, 200, 300, 400, 500, 600, 700, 800, 900, 1000]
   regimeStudy({ n: 32, factor: 4, shortLength: 2, longLength: 12, samples: 8 }, seeds, 'regimes128', out, rows)
   regimeStudy({ n: 32, factor: 4, shortLength: 2, longLength: 12, samples: 8, stationary: true }, seeds, 'regimes128Stationary', out, rows)
   regimeStudy({ n: 64, factor: 8, shortLength: 8, longLength: 32, samples: 8 }, [100, 200, 300], 'regimes512', out, rows)
+  // The 128² scenario scaled up: the same ℓ/b in each half (0.5 and 3 coarse cells) on the 512² grid.
+  regimeStudy({ n: 64, factor: 8, shortLength: 4, longLength: 24, samples: 8 }, [100, 200, 300], 'regimes512SameShape', out, rows)
   rows.push('gain, anisotropy (anisotropy fit vs off):')
   anisotropyStudy(0.4, [11, 12, 13, 14, 15], 'anisotropic', out, rows)
   anisotropyStudy(1, [11, 12, 13, 14, 15], 'isotropicControl', out, rows)
