@@ -13,7 +13,9 @@
  * and makes sampling slow. Negative inputs (model round-off) are treated as dry and counted.
  */
 import { fitBoxCox } from './boxCox'
-import { DEFAULT_CENSORED_LAMBDA, fitCensoredPower } from './censoredPower'
+import type { KernelParams } from '../grf/kernels'
+import { DEFAULT_CENSORED_LAMBDA, fitCensoredPower, type CensoredPowerFit } from './censoredPower'
+import { indirectCensoredFit, simulationFields } from './censoredIndirect'
 import { latentTransform, resolveTransform, type LatentTransform, type TransformName, type TransformOption } from './latentTransform'
 import { inverseMillsRatio } from './logNormalCdf'
 
@@ -35,6 +37,16 @@ export interface TransformSummary {
   latentMean?: number
   latentSd?: number
   coarseDryProbability?: number
+  /**
+   * Censored model with λ fitted: 'indirect' when the change-of-support correction (censoredIndirect.ts)
+   * replaced the coarse fit's λ, with the coarse (auxiliary) λ̂, the fine-scale latent marginal and the
+   * binding-function evaluations; 'coarse' when it was not applied or failed (see note).
+   */
+  lambdaMethod?: 'coarse' | 'indirect'
+  coarseLambda?: number
+  fineLatentMean?: number
+  fineLatentSd?: number
+  indirectEvaluations?: number
 }
 
 export interface LatentCoarse {
@@ -48,6 +60,8 @@ export interface LatentCoarse {
   /** True when every valid block is dry (censored): the samples are all zero, nothing to fit. */
   allDry: boolean
   summary: TransformSummary
+  /** Censored model: the coarse Tobit fit the targets came from (absent when there was nothing to fit). */
+  censoredFit?: CensoredPowerFit
 }
 
 /**
@@ -98,12 +112,12 @@ function prepareCensored(physical: Float64Array, valid: number[], base: Pick<Tra
     return { transform: t, physical, targets: empty, fitField: empty, allDry: true, summary: { ...base, ...counts, lambda: t.lambda, lambdaFitted: false } }
   }
   let lambda = fixedLambda ?? DEFAULT_CENSORED_LAMBDA, lambdaFitted = false, lambdaAtBound: TransformSummary['lambdaAtBound'] = null
-  let dryTarget: number, marginal: Pick<TransformSummary, 'latentMean' | 'latentSd' | 'coarseDryProbability'> = {}
+  let dryTarget: number, censoredFit: CensoredPowerFit | undefined, marginal: Pick<TransformSummary, 'latentMean' | 'latentSd' | 'coarseDryProbability'> = {}
   const wetLatent = (l: number) => valid.filter((k) => physical[k]! > 0).map((k) => Math.pow(physical[k]!, l))
   const distinctWet = new Set(wetLatent(1)).size
   if (distinctWet >= 2) {
     const fit = fitCensoredPower(valid.map((k) => physical[k]!), undefined, fixedLambda)
-    lambda = fit.lambda; lambdaFitted = fit.lambdaFitted; lambdaAtBound = fit.atBound
+    lambda = fit.lambda; lambdaFitted = fit.lambdaFitted; lambdaAtBound = fit.atBound; censoredFit = fit
     const alpha = -fit.mean / fit.sd
     dryTarget = fit.mean - fit.sd * inverseMillsRatio(alpha)
     marginal = { latentMean: fit.mean, latentSd: fit.sd, coarseDryProbability: fit.dryProbability }
@@ -114,7 +128,30 @@ function prepareCensored(physical: Float64Array, valid: number[], base: Pick<Tra
   const t = latentTransform('censored', lambda)
   const targets = physical.map((v) => (!Number.isFinite(v) ? NaN : v > 0 ? t.toLatent(v) : dryTarget))
   return {
-    transform: t, physical, targets, fitField: targets, allDry: false,
+    transform: t, physical, targets, fitField: targets, allDry: false, ...(censoredFit ? { censoredFit } : {}),
     summary: { ...base, ...counts, lambda, lambdaFitted, lambdaAtBound, dryTarget, ...marginal },
   }
+}
+
+/**
+ * Censored model with λ fitted on the coarse field: the change-of-support correction by indirect
+ * inference (censoredIndirect.ts), with the latent correlation of `kernel` (fitted on `latent`'s
+ * targets). Returns the latent field prepared again with the fine-scale λ, and the fine-scale latent
+ * mean and standard deviation, for the prior; null (with the reason) when it does not apply or fails.
+ */
+export function correctCensoredSupport(latent: LatentCoarse, kernel: KernelParams, nx: number, ny: number, factor: number, seed: number): { latent: LatentCoarse; mean: number; sd: number } | { note: string } {
+  const s = latent.summary
+  const observed = latent.censoredFit
+  if (s.name !== 'censored' || !s.lambdaFitted || !observed) return { note: 'λ not fitted' }
+  const valid: number[] = []
+  for (let k = 0; k < latent.physical.length; k++) if (Number.isFinite(latent.physical[k]!)) valid.push(k)
+  const { standard, grid } = simulationFields(kernel, nx, ny, factor, seed)
+  const fine = indirectCensoredFit(observed, standard, grid)
+  if (!fine) return { note: 'change-of-support correction did not converge: λ from the coarse fit' }
+  const again = prepareCensored(Float64Array.from(latent.physical), valid, { name: s.name, requested: s.requested, ...(s.note ? { note: s.note } : {}) }, fine.lambda)
+  again.summary = {
+    ...again.summary, lambdaFitted: true, lambdaAtBound: null, lambdaMethod: 'indirect', coarseLambda: observed.lambda,
+    fineLatentMean: fine.mean, fineLatentSd: fine.sd, indirectEvaluations: fine.evaluations, negativeInputs: s.negativeInputs,
+  }
+  return { latent: again, mean: fine.mean, sd: fine.sd }
 }
