@@ -177,7 +177,7 @@ export function sampleMember(input: DownscaleMemberInput): MemberSamples {
     // also gives the fine-scale latent mean and variance, which the prior takes, keeping the fitted
     // correlation (ℓ barely moves with λ: 5.58 vs 5.65 fine cells on bench/extensions2.ts's truths).
     // Measured there (10 truths, dry fraction of samples − truth's): −0.079 coarse fit; −0.028 with the
-    // corrected λ and a refit of the covariance; −0.017 with the fine-scale prior instead (no refit).
+    // corrected λ and a refit of the covariance; −0.013 with the fine-scale prior instead (no refit).
     // Not with regimes: the windows are fitted, and tested against this fit, on the same targets.
     const corrected = input.regimes === 'windows' ? { note: 'change-of-support correction not applied with regimes: λ from the coarse fit' }
       : correctCensoredSupport(latent, kernelParamsOf(fit, false), nx, ny, factor, CENSORED_SUPPORT_SEED)

@@ -106,13 +106,13 @@ describe('precipitation (censored latent Gaussian)', () => {
     const average = (v: number[]) => v.reduce((a, x) => a + x, 0) / v.length
     // The block values' own Tobit fit puts λ near 0.48 (truth 0.7: partly dry blocks give many small
     // amounts); the indirect-inference λ is the fine-scale one. Measured means over these 8 truths:
-    // coarse 0.489, corrected 0.713.
+    // coarse 0.489, corrected 0.703.
     expect(average(coarseLambdas)).toBeLessThan(0.55)
     expect(Math.abs(average(lambdas) - 0.7)).toBeLessThan(0.1)
     // Measured on this set-up with six truth seeds (101, 202, …, 606; the test uses 101): mean difference
-    // −0.017, −0.007, −0.012, −0.010, +0.010, −0.008 (se 0.007–0.010). With the coarse fit of λ
-    // (censoredSupport 'coarse') it was −0.080, −0.079, −0.082, −0.078, −0.062, −0.082 (se 0.005–0.007),
-    // so 0.035 passes every corrected run and fails every uncorrected one.
+    // −0.014, −0.009, −0.001, −0.007, +0.013, +0.001 (se 0.005–0.010; mean λ 0.69–0.77). With the coarse
+    // fit of λ (censoredSupport 'coarse') it was −0.080, −0.079, −0.082, −0.078, −0.062, −0.082 (se
+    // 0.005–0.007), so 0.035 passes every corrected run and fails every uncorrected one.
     expect(Math.abs(average(differences))).toBeLessThan(0.035)
   })
 
