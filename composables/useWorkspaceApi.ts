@@ -14,6 +14,8 @@ export interface LeadDto {
   index: number
   validTime: string
   when: string
+  /** The first (or only) lead time alone. */
+  leadWhen?: string
   window?: { from: number; to: number; extreme: 'max' | 'min'; validTimes: string[]; timeCoherent: boolean; meaning: string } | null
 }
 

@@ -108,14 +108,26 @@ export function validTimeText(run: Pick<RunRow, 'leadTimes' | 'cellMethods' | 'f
 
 /**
  * A time window in words: 'any' for events ("at any of the 4 valid times from 06 UTC 14 Nov 2031
- * to 00 UTC 15 Nov 2031"), 'over' for the window's extreme values ("over the 4 valid times …");
- * accumulations and other period values say "periods" and give each end period.
+ * to 00 UTC 15 Nov 2031"), 'over' for the window's extreme values ("over the 4 valid times …").
+ * Accumulations and other period values name the span the periods cover ("in any of the 4
+ * periods of 6 h between 00 UTC 14 Nov 2031 and 00 UTC 15 Nov 2031").
  */
 export function windowTimeText(run: Pick<RunRow, 'leadTimes' | 'cellMethods' | 'forecastPeriodsHours'>, from: number, to: number, kind: 'any' | 'over'): string {
+  const count = to - from + 1
+  if (/time:\s*(sum|mean|maximum|minimum)/.test(run.cellMethods ?? '')) {
+    const hours = periodHours(run, from)
+    const end = new Date(run.leadTimes[to]!)
+    const start = new Date(Date.parse(run.leadTimes[from]!) - (hours ?? 0) * 3600_000)
+    const length = hours && [from, to].every((l) => periodHours(run, l) === hours) ? ` of ${formatNumber(hours)} h` : ''
+    return `${kind === 'any' ? 'in any of' : 'over'} the ${count} periods${length} between ${utcDay(start)} and ${utcDay(end)}`
+  }
   const first = validTimeText(run, from).replace(/^valid /, ''), last = validTimeText(run, to).replace(/^valid /, '')
-  const periods = /time:\s*(sum|mean|maximum|minimum)/.test(run.cellMethods ?? '')
-  const count = `${to - from + 1} ${periods ? 'periods' : 'valid times'}`
-  return `${kind === 'any' ? `${periods ? 'in' : 'at'} any of the` : 'over the'} ${count} from ${first} to ${last}`
+  return `${kind === 'any' ? 'at any of' : 'over'} the ${count} valid times from ${first} to ${last}`
+}
+
+/** "06 UTC 14 Nov 2031". */
+function utcDay(d: Date): string {
+  return `${utcHour(d)} UTC ${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}`
 }
 
 function periodHours(run: Pick<RunRow, 'leadTimes' | 'forecastPeriodsHours'>, leadIndex: number): number | null {
@@ -388,6 +400,8 @@ export function leadDescription(run: RunRow, entry: LeadSamples) {
   const w = entry.window
   return {
     index: entry.leadIndex, validTime: run.leadTimes[entry.leadIndex]!, when: w ? windowTimeText(run, w.from, w.to, 'any') : validTimeText(run, entry.leadIndex),
+    /** The first (or only) lead time alone, for what stays at one time (coarse members, single samples). */
+    leadWhen: validTimeText(run, entry.leadIndex),
     window: w ? { from: w.from, to: w.to, extreme: w.extreme, validTimes: run.leadTimes.slice(w.from, w.to + 1), timeCoherent: entry.timeCoherent, meaning: w.meaning } : null,
   }
 }

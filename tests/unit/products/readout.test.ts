@@ -6,7 +6,7 @@ import { circlePolygon } from '../../../shared/numerics/geo/shapes'
 import type { RunGrid } from '../../../server/db/schema/runs'
 import { runPlacement, type LeadSamples, type RunRow } from '../../../server/utils/runSamples'
 import {
-  classesForEnsemble, eventPhrase, legendTitle, pointReadout, probabilityClassOf, probabilityDisplayClasses, validTimeText,
+  classesForEnsemble, eventPhrase, legendTitle, pointReadout, probabilityClassOf, probabilityDisplayClasses, validTimeText, windowTimeText,
 } from '../../../server/utils/products'
 import { areaCellsOnGrid } from '../../../server/utils/areaProducts'
 
@@ -63,6 +63,15 @@ describe('wording', () => {
     expect(eventPhrase({ ...run, standardName: 'air_temperature', heightM: 2, displayUnits: '°C' } as RunRow, -3, 'below')).toBe('the 2 m temperature falls to −3 °C or lower')
     expect(validTimeText(run, 1)).toBe('valid 12 UTC 14 Nov 2031')
     expect(validTimeText({ ...run, cellMethods: 'time: sum' } as RunRow, 1)).toBe('06–12 UTC 14 Nov 2031')
+  })
+
+  it('names a time window by its valid times, or for period values by the span its periods cover', () => {
+    expect(windowTimeText(run, 0, 1, 'any')).toBe('at any of the 2 valid times from 06 UTC 14 Nov 2031 to 12 UTC 14 Nov 2031')
+    expect(windowTimeText(run, 0, 1, 'over')).toBe('over the 2 valid times from 06 UTC 14 Nov 2031 to 12 UTC 14 Nov 2031')
+    const sums = { ...run, cellMethods: 'time: sum', leadTimes: ['2031-11-14T06:00:00Z', '2031-11-14T12:00:00Z', '2031-11-14T18:00:00Z', '2031-11-15T00:00:00Z'] } as RunRow
+    // Four 6-hour periods ending 06, 12, 18 and 00 UTC: together they cover 00 UTC 14 Nov to 00 UTC 15 Nov.
+    expect(windowTimeText(sums, 0, 3, 'any')).toBe('in any of the 4 periods of 6 h between 00 UTC 14 Nov 2031 and 00 UTC 15 Nov 2031')
+    expect(windowTimeText(sums, 1, 2, 'over')).toBe('over the 2 periods of 6 h between 06 UTC 14 Nov 2031 and 18 UTC 14 Nov 2031')
   })
 
   it('the legend names product, radius, time and scenario count', () => {
