@@ -132,7 +132,9 @@ export function transformLabel(t: TaskTransform | undefined): string | null {
   if (!t || t.name === 'none') return null
   if (t.name === 'log') return 'log'
   const how = !t.lambdaFitted ? 'set' : t.lambdaAtBound ? `fitted, at ${t.lambdaAtBound} bound` : 'fitted'
-  return `${TRANSFORM_NAMES[t.name]} λ = ${t.lambda.toFixed(2)} (${how})`
+  // The censored model's change-of-support correction replaced the coarse fit's λ (and the latent σ and mean).
+  const corrected = t.lambdaMethod === 'indirect' && t.coarseLambda !== undefined ? `, corrected for block averaging from ${t.coarseLambda.toFixed(2)}` : ''
+  return `${TRANSFORM_NAMES[t.name]} λ = ${t.lambda.toFixed(2)} (${how}${corrected})`
 }
 
 /**
@@ -154,7 +156,10 @@ export function latentNote(fits: (TaskFit | null | undefined)[]): string | null 
     return `${what} ${lambda}`
   })
   const some = transformed.length < fits.filter((f) => f && !isAllDryFit(f)).length ? ' (marked “latent”)' : ''
-  return `ℓ, σ and the mean${some} are of the latent (transformed) field, not of the values themselves: ${parts.join('; ')}.`
+  const corrected = transformed.some((f) => f.transform!.lambdaMethod === 'indirect')
+    ? ' Where λ was corrected for block averaging, σ and the mean are the fine-scale latent values of the correction; the log-likelihood is the coarse fit\'s.'
+    : ''
+  return `ℓ, σ and the mean${some} are of the latent (transformed) field, not of the values themselves: ${parts.join('; ')}.${corrected}`
 }
 
 /** "3 of 9 windows local, ℓ 4.0–11.0 km", or why the stationary model was kept. */

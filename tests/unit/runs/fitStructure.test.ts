@@ -93,6 +93,7 @@ describe('latent transform', () => {
     expect(transformLabel(censored({ lambdaFitted: false }))).toBe('censored power λ = 0.50 (set)')
     expect(transformLabel({ name: 'boxcox', lambda: 2, lambdaFitted: true, lambdaAtBound: 'upper' })).toBe('Box–Cox λ = 2.00 (fitted, at upper bound)')
     expect(transformLabel({ name: 'log', lambda: 0, lambdaFitted: false })).toBe('log')
+    expect(transformLabel(censored({ lambda: 0.694, lambdaMethod: 'indirect', coarseLambda: 0.484 }))).toBe('censored power λ = 0.69 (fitted, corrected for block averaging from 0.48)')
     expect(transformLabel({ name: 'none', lambda: 1, lambdaFitted: false })).toBeNull()
     expect(transformLabel(undefined)).toBeNull()
   })
