@@ -148,7 +148,7 @@ export async function areaProductsForRun(run: RunRow, placement: RunPlacement, g
     note: onGrid.note,
     event: eventPhrase(run, threshold, direction),
     leads, window: windowResult, windowNote,
-    windowMeaning: windowMeaning(inWindow.map((x) => x.e)),
+    windowMeaning: windowMeaning(run, inWindow.map((x) => x.e)),
     skipped,
     computeMs: Math.round(performance.now() - started),
   }

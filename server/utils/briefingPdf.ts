@@ -16,6 +16,7 @@ import {
 import { formatBriefingTimePair, formatBriefingUtc, utcOffsetText } from '../../shared/utils/briefingTimes'
 import { BRIEFING_STATUS_LABELS } from '../../shared/utils/briefingStates'
 import type { BriefingFigure, BriefingMethod, BriefingStatement } from '../../shared/schemas/briefings'
+import { timeCoherenceSentence, typicalLeadSpacingHours } from '../../shared/utils/timeCoherenceText'
 import type { tables } from './db'
 import type { RenderedFigure } from './briefingFigures'
 import { PDF_FONT_FAMILY, usePdfMake } from './pdfFonts'
@@ -224,7 +225,7 @@ function methodText(m: BriefingMethod | null): string {
 }
 
 const TRANSFORM_WORDS: Record<string, string> = {
-  boxcox: 'a fitted power (Box–Cox) transform of the values',
+  boxcox: 'a power (Box–Cox) transform of the values, its exponent fitted per member',
   log: 'the logarithm of the values',
   censored: 'a hidden Gaussian field that is dry wherever it is below zero (a censored model), so no scenario has negative amounts',
 }
@@ -238,9 +239,7 @@ export function extensionSentences(m: BriefingMethod): string[] {
   if (transforms.length) out.push(`The correlation model was fitted to ${transforms.join('; or to ')}, and each scenario was turned back into ${m.units} with its coarse averages kept.`)
   if (x.anisotropicFits) out.push(`In ${x.anisotropicFits} of ${x.fits} member fits the correlation was stretched along one direction (a fitted ellipse, not a circle).`)
   if (x.regimeFits) out.push(`In ${x.regimeFits} of ${x.fits} member fits the length scale was allowed to change across the domain (fitted on overlapping windows and blended).`)
-  out.push(x.timeScaleHours !== null
-    ? `The fine-scale detail of a scenario was drawn with noise correlated from one lead time to the next (decorrelation time about ${Math.round(x.timeScaleHours)} h, fitted from the members), so a scenario hangs together in time.`
-    : 'The fine-scale detail of each scenario was drawn separately at each lead time, so only the coarse member links a scenario\'s times; chances "at any time" in a window may then be somewhat high for small areas.')
+  out.push(timeCoherenceSentence(x.timeScaleHours, typicalLeadSpacingHours(m.leadTimes)))
   return out
 }
 

@@ -10,6 +10,7 @@ import { createError } from 'h3'
 import { ProductPlan } from '../../shared/numerics/ensemble/productPlan'
 import { timeExtremeStack, type Direction } from '../../shared/numerics/ensemble/stack'
 import { checkLeadIndex, leadSamples, type LeadSamples, type RunRow } from './runSamples'
+import { timeCoherenceSentence, typicalLeadSpacingHours } from '../../shared/utils/timeCoherenceText'
 
 const windowCache = new Map<string, LeadSamples>()
 /** Window entries kept in memory; each holds one extra copy of a lead time's samples. */
@@ -23,12 +24,13 @@ export function samplesAligned(entries: LeadSamples[]): boolean {
   return entries.every((e) => e.memberIndices.join() === first.memberIndices.join() && e.sampleStart.join() === first.sampleStart.join())
 }
 
-/** What "any time in the window" counts: per scenario, and how the scenarios hang together in time. */
-export function windowMeaning(entries: LeadSamples[]): string {
-  const base = 'At one or more of the window\'s valid times, counted per scenario (sample k of a member is the same scenario at every lead time)'
-  return entries.length && entries.every((e) => e.timeCoherent)
-    ? `${base}; the run was downscaled with time-coherent noise, so each sample's fine-scale detail is correlated from one lead time to the next.`
-    : `${base}; the fine-scale detail of each sample was drawn separately at each lead time, so only the coarse member links them.`
+/** What "any time in the window" counts: per scenario, and how strongly the scenarios hang together in time. */
+export function windowMeaning(run: Pick<RunRow, 'settings' | 'leadTimes'>, entries: LeadSamples[]): string {
+  const base = 'At one or more of the window\'s valid times, counted per scenario (sample k of a member is the same scenario at every lead time).'
+  const coherent = entries.length > 0 && entries.every((e) => e.timeCoherent)
+  const tau = coherent ? run.settings?.timeScaleHours ?? null : null
+  const spacing = typicalLeadSpacingHours(entries.map((e) => run.leadTimes[e.leadIndex]!))
+  return `${base} ${timeCoherenceSentence(tau, spacing)}`
 }
 
 /** Element-wise extreme of Float32 grids; NaN (missing coarse cell) anywhere stays NaN. */
@@ -81,7 +83,7 @@ export async function windowLeadSamples(run: RunRow, from: number, to: number | 
     valueRange: [Math.min(...entries.map((e) => e.valueRange[0])), Math.max(...entries.map((e) => e.valueRange[1]))],
     loadMs: Math.round(entries.reduce((s, e) => s + e.loadMs, 0) + performance.now() - started),
     maps: new Map(),
-    window: { from, to, extreme, meaning: windowMeaning(entries) },
+    window: { from, to, extreme, meaning: windowMeaning(run, entries) },
   }
   for (const k of windowCache.keys()) if (k.startsWith(`${run.id}:${from}-${to}:${extreme}:`)) windowCache.delete(k)
   windowCache.set(key, entry)

@@ -139,7 +139,8 @@ describe('briefing PDF', () => {
 describe('method text: engine extensions', () => {
   const base = {
     runId: 1, runName: 'r', referenceTime: null, isDemo: false, members: 4, samplesPerMember: 3, scenarios: 12, factor: 8,
-    coarseSpacingKm: 20, fineSpacingKm: 2.5, kernels: ['matern32'], lengthScaleKm: [10, 12] as [number, number], quantity: 'precipitation_amount', units: 'mm', leadTimes: [],
+    coarseSpacingKm: 20, fineSpacingKm: 2.5, kernels: ['matern32'], lengthScaleKm: [10, 12] as [number, number], quantity: 'precipitation_amount', units: 'mm',
+    leadTimes: ['2031-11-14T06:00:00Z', '2031-11-14T12:00:00Z', '2031-11-14T18:00:00Z'],
   }
   it('says nothing for briefings written before the extensions existed', () => {
     expect(extensionSentences(base)).toEqual([])
@@ -149,7 +150,13 @@ describe('method text: engine extensions', () => {
     expect(text).toMatch(/no scenario has negative amounts/)
     expect(text).toMatch(/In 3 of 16 member fits the correlation was stretched/)
     expect(text).not.toMatch(/allowed to change across the domain/)
-    expect(text).toMatch(/decorrelation time about 9 h/)
+    // exp(−6/8.6) = 0.498 (6 h between lead times).
+    expect(text).toMatch(/keeps a correlation of about 0\.50 from one lead time to the next \(6 h apart; decorrelation time about 8\.6 h/)
+  })
+  it('does not call a short decorrelation time coherent: exp(−6/1.3) ≈ 0.01 is practically redrawn', () => {
+    const text = extensionSentences({ ...base, extensions: { transforms: ['none'], anisotropicFits: 0, regimeFits: 0, fits: 16, timeScaleHours: 1.3 } }).join(' ')
+    expect(text).toMatch(/short next to the 6 h between lead times, so the detail is practically redrawn/)
+    expect(text).not.toMatch(/hangs together/)
   })
   it('warns that window chances may run high when the detail was drawn separately at each lead time', () => {
     const text = extensionSentences({ ...base, extensions: { transforms: ['none'], anisotropicFits: 0, regimeFits: 2, fits: 16, timeScaleHours: null } }).join(' ')
