@@ -89,6 +89,9 @@ function perturbationSampler(nx: number, ny: number, lengthScale: number) {
 
 export interface DemoOptions { members?: number; leadTimes?: number; seed?: number; referenceTime?: string }
 
+/** Lag-one (6-hour) correlation of each member's small-scale anomalies. */
+const NOISE_PERSISTENCE = 0.8
+
 /** Builds the three demo ensembles (gusts, 2 m temperature, 6-hour precipitation). */
 export function synthesiseDemoEnsembles(opts: DemoOptions = {}): DemoEnsemble[] {
   const members = opts.members ?? 18
@@ -111,8 +114,18 @@ export function synthesiseDemoEnsembles(opts: DemoOptions = {}): DemoEnsemble[] 
   }
   for (const variable of ['gust', 'temperature', 'precipitation'] as DemoVariable[]) {
     const fields: Float32Array[] = []
+    // A member's small-scale anomalies persist from one 6-hour step to the next (AR(1), correlation
+    // NOISE_PERSISTENCE), as a model trajectory's do, rather than being redrawn at each lead time.
+    const previous: [Float64Array, Float64Array][] = []
     for (let t = 0; t < leads; t++) for (let m = 0; m < members; m++) {
-      const noise = sample(rng), noise2 = sample(rng)
+      let noise = sample(rng), noise2 = sample(rng)
+      const before = previous[m]
+      if (before) {
+        const keep = NOISE_PERSISTENCE, fresh = Math.sqrt(1 - NOISE_PERSISTENCE ** 2)
+        noise = noise.map((v, k) => keep * before[0][k]! + fresh * v)
+        noise2 = noise2.map((v, k) => keep * before[1][k]! + fresh * v)
+      }
+      previous[m] = [noise, noise2]
       const s = memberShift[m]!
       const f = new Float32Array(nx * ny)
       for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) {
