@@ -9,7 +9,8 @@
  * the window only through the tail of the kernel's square root. The right part of the padding gets
  * ⌈P/2⌉ of its P cells, the left part ⌊P/2⌋ (P = torus side − window side).
  */
-import type { WhiteNoiseSource } from '../grf/downscaler'
+import type { SpectralNoiseSource, WhiteNoiseSource } from '../grf/downscaler'
+import { fft2d } from '../fft/fft2d'
 import { fillStandardNormal } from '../random/normal'
 import { Xoshiro128 } from '../random/xoshiro128'
 import { DEFAULT_NOISE_TRUNCATION, leadNoiseWeights } from './leadNoiseWeights'
@@ -63,6 +64,84 @@ export function coherentWhiteNoise(spec: CoherentNoiseSpec): WhiteNoiseSource & 
           fillStandardNormal(new Xoshiro128(spec.noiseSeed, streamIndex(pair, s, plane, rowKey, 1)), buffer, 0, cols.left)
           for (let q = 0; q < cols.left; q++) out[base + tx - 1 - q]! += c * buffer[q]!
         }
+      }
+    }
+  }
+  return Object.assign(source, { weights: w })
+}
+
+/**
+ * Seed of the spectral innovations of one member on one torus size: tori of different sizes get
+ * independent streams (their modes are different frequencies, so nothing could be shared).
+ */
+function spectralSeed(noiseSeed: number, tx: number, ty: number): number {
+  return noiseSeed + 4294967296 * (1 + ((tx * 65599 + ty) % 1048576))
+}
+
+/**
+ * Spatial coherent noise on any torus that agrees with `spectral` on the reference torus: the spatial
+ * noise whose spectrum that is, w = √M · IFFT(ξ) (M = rx·ry; then FFT(w)/√M = ξ, so a lead sampling on
+ * the reference torus from w gives exactly the spectral draw), placed by signed cell coordinates on
+ * every cell both tori contain; the other cells take the signed-coordinate streams of
+ * coherentWhiteNoise. Leads on tori of other sizes (a doubled torus after the positive-definiteness
+ * check, or a smaller one for a short length scale) so share the noise of every common cell with the
+ * leads drawn in the spectrum. Costs one reference-size inverse FFT per pair on top of the spatial path.
+ */
+export function coherentNoiseMatchingSpectrum(spec: CoherentNoiseSpec, reference: [number, number]): WhiteNoiseSource & { weights: ReturnType<typeof leadNoiseWeights> } {
+  const spectral = coherentSpectralNoise(spec)
+  const spatial = coherentWhiteNoise(spec)
+  const [rx, ry] = reference
+  const source = (pair: number, re: Float64Array, im: Float64Array, tx: number, ty: number, wx: number, wy: number): void => {
+    spatial(pair, re, im, tx, ty, wx, wy)
+    const wre = new Float64Array(rx * ry), wim = new Float64Array(rx * ry)
+    spectral(pair, wre, wim, rx, ry)
+    fft2d(wre, wim, rx, ry, true)
+    const scale = Math.sqrt(rx * ry)
+    const torusColumn = placement(rx, wx, tx), torusRow = placement(ry, wy, ty)
+    for (let j = 0; j < ry; j++) {
+      const J = torusRow[j]!
+      if (J < 0) continue
+      for (let i = 0; i < rx; i++) {
+        const I = torusColumn[i]!
+        if (I < 0) continue
+        re[J * tx + I] = scale * wre[j * rx + i]!
+        im[J * tx + I] = scale * wim[j * rx + i]!
+      }
+    }
+  }
+  return Object.assign(source, { weights: spatial.weights })
+}
+
+/** For each index of a side-`from` torus, the index of the same signed coordinate on a side-`to` torus (−1 when outside it). */
+function placement(from: number, window: number, to: number): Int32Array {
+  const a = sideSplit(from, window), b = sideSplit(to, window)
+  return Int32Array.from({ length: from }, (_, i) => {
+    const c = i < a.right ? i : i - from
+    return c >= 0 ? (c < b.right ? c : -1) : (-c <= b.left ? to + c : -1)
+  })
+}
+
+/**
+ * AR(1)-coherent white noise drawn directly in the torus spectrum (Σ_s c_{t,s} ξ_{p,s}, each ξ a pair of
+ * seeded planes of independent standard normals per Fourier mode): for leads that all sample on the same
+ * torus, it is the spatial construction above transformed by the (fixed, linear) DFT, so the lead-to-lead
+ * correlation is the same, and it saves the forward FFT and the per-row streams. Only leads on one torus
+ * size share noise: use it when the torus cannot depend on the fitted length scale.
+ */
+export function coherentSpectralNoise(spec: CoherentNoiseSpec): SpectralNoiseSource & { weights: ReturnType<typeof leadNoiseWeights> } {
+  if (!Number.isSafeInteger(spec.noiseSeed) || spec.noiseSeed < 0 || spec.noiseSeed >= 4294967296) throw new Error(`noise seed must be a 32-bit unsigned integer, got ${spec.noiseSeed}`)
+  if (spec.leadIndex >= MAX_LEADS) throw new Error(`at most ${MAX_LEADS} lead times are supported`)
+  const w = leadNoiseWeights(spec.leadHours, spec.leadIndex, spec.timeScaleHours, spec.truncation ?? DEFAULT_NOISE_TRUNCATION)
+  const source = (pair: number, re: Float64Array, im: Float64Array, tx: number, ty: number): void => {
+    if (pair >= MAX_PAIRS || tx > MAX_SIDE || ty > MAX_SIDE) throw new Error('noise request beyond the supported pairs or torus size')
+    const buffer = new Float64Array(tx * ty)
+    re.fill(0); im.fill(0)
+    for (let s = w.first; s < w.first + w.weights.length; s++) {
+      const c = w.weights[s - w.first]!
+      const rng = new Xoshiro128(spectralSeed(spec.noiseSeed, tx, ty), pair * MAX_LEADS + s)
+      for (const out of [re, im]) {
+        fillStandardNormal(rng, buffer)
+        for (let k = 0; k < buffer.length; k++) out[k]! += c * buffer[k]!
       }
     }
   }

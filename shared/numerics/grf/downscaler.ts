@@ -64,6 +64,14 @@ export interface DownscalerDiagnostics {
  */
 export type WhiteNoiseSource = (pair: number, re: Float64Array, im: Float64Array, torusNx: number, torusNy: number, windowNx: number, windowNy: number) => void
 
+/**
+ * Fills (re, im) with the torus spectrum's white noise for sample pair `pair`: independent standard
+ * normals per Fourier mode and plane, as the seeded draw uses (torusNx × torusNy, row-major). The
+ * DFT of circular complex white noise is again circular complex white noise, so this is the same in
+ * law as transforming spatial noise, without the forward FFT.
+ */
+export type SpectralNoiseSource = (pair: number, re: Float64Array, im: Float64Array, torusNx: number, torusNy: number) => void
+
 export interface Downscaler {
   /** Fine grid size (b·nx × b·ny). */
   readonly nx: number
@@ -86,6 +94,8 @@ export interface Downscaler {
    * (circulant square root on the torus, one extra forward FFT per pair). For time-coherent streams.
    */
   samplesFromNoise(count: number, noise: WhiteNoiseSource): Float64Array[]
+  /** Conditional samples 0…count−1 from supplied spectral white noise (no forward FFT). For time-coherent streams on a fixed torus. */
+  samplesFromSpectralNoise(count: number, noise: SpectralNoiseSource): Float64Array[]
   /**
    * Re-conditions fields to changed block-mean targets: x' = x + K Aᵀ C⁻¹ Δ for each field x and its
    * coarse change Δ (row-major nx×ny, missing cells ignored). Linear, so A x' = A x + Δ on observed
@@ -218,10 +228,24 @@ class TorusDownscaler implements Downscaler {
   }
 
   samplesFromNoise(count: number, noise: WhiteNoiseSource): Float64Array[] {
+    return this.pairsDrawnBy(count, (p) => this.drawSpectrumFromNoise(noise, p))
+  }
+
+  samplesFromSpectralNoise(count: number, noise: SpectralNoiseSource): Float64Array[] {
+    return this.pairsDrawnBy(count, (p) => {
+      const { embedding: e } = this.model
+      noise(p, this.re, this.im, e.nx, e.ny)
+      const s = this.sqrtScaledLambda, re = this.re, im = this.im
+      for (let k = 0; k < s.length; k++) { re[k]! *= s[k]!; im[k]! *= s[k]! }
+    })
+  }
+
+  /** Samples 0…count−1, pair p's spectrum put into (re, im) by draw(p). */
+  private pairsDrawnBy(count: number, draw: (pair: number) => void): Float64Array[] {
     if (!Number.isInteger(count) || count < 0) throw new Error(`sample count must be a non-negative integer, got ${count}`)
     const out: Float64Array[] = []
     for (let p = 0; 2 * p < count; p++) {
-      this.drawSpectrumFromNoise(noise, p)
+      draw(p)
       const [a, b] = this.conditionDrawnPair()
       out.push(a)
       if (2 * p + 1 < count) out.push(b)

@@ -8,7 +8,8 @@
  * windows, blended: regimes/), both off by default.
  * Pure: used by the job worker's threads, the demo seeding and the command line alike.
  */
-import { coherentWhiteNoise } from '../coherence/coherentNoise'
+import { coherentNoiseMatchingSpectrum, coherentSpectralNoise, coherentWhiteNoise } from '../coherence/coherentNoise'
+import { torusSide } from '../grf/circulantEmbedding'
 import { DEFAULT_NOISE_TRUNCATION, isIsolatedLead, leadCorrelation } from '../coherence/leadNoiseWeights'
 import { defaultLengthScaleBounds, fitCoarseField, kernelParamsOf, type FitResult } from '../fit/fitCoarse'
 import { createDownscaler } from '../grf/downscaler'
@@ -275,11 +276,15 @@ function chooseRegimes(fitField: Float64Array, targets: Float64Array, fit: FitRe
 }
 
 /**
- * Latent samples: seeded per lead, or from time-coherent noise (one independent stream per regime
- * window). A lead that shares no innovation with any other (τ short against the lead spacing) takes
- * the seeded spectral draw instead: the same in law, and one FFT per pair cheaper.
+ * Latent samples: seeded per lead, or from time-coherent noise. A lead that shares no innovation with
+ * any other (τ short against the lead spacing) takes the seeded spectral draw: the same in law, and one
+ * FFT per pair cheaper. Otherwise the member's innovations live in the spectrum of a reference torus
+ * (the window's minimal embedding, torusSide(window, ∞)): a lead sampling on that torus draws them
+ * directly (no forward FFT); a lead on another torus (doubled by the positive-definiteness check, or
+ * smaller for a short length scale) takes the spatial noise that agrees with them on every common
+ * cell. With regimes on, every lead keeps the signed-coordinate spatial streams (one per window).
  */
-function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number | boolean> } {
+function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { samples: Float64Array[]; coherence?: Record<string, number | boolean | string> } {
   const tc = input.timeCoherence
   if (!tc) return { samples: downscaler.samples(input.samples, input.seed) }
   const t = tc.leadIndex
@@ -288,12 +293,24 @@ function drawSamples(downscaler: MemberSampler, input: DownscaleMemberInput): { 
     correlationWithPreviousLead: t > 0 ? leadCorrelation(tc.leadHours[t]!, tc.leadHours[t - 1]!, tc.timeScaleHours) : NaN,
   }
   if (isIsolatedLead(tc.leadHours, t, tc.timeScaleHours, DEFAULT_NOISE_TRUNCATION, tc.isLastLead ?? false)) {
-    return { samples: downscaler.samples(input.samples, taskSeed(tc.noiseSeed, t, -1)), coherence: { ...summary, innovations: 1, droppedWeight: 0, isolated: true } }
+    return { samples: downscaler.samples(input.samples, taskSeed(tc.noiseSeed, t, -1)), coherence: { ...summary, innovations: 1, droppedWeight: 0, isolated: true, noise: 'seeded' } }
+  }
+  const b = input.factor
+  const torus = downscaler.torus
+  if (downscaler.samplesFromSpectralNoise && torus && input.regimes !== 'windows') {
+    const reference: [number, number] = [torusSide(input.nx * b, Infinity, b), torusSide(input.ny * b, Infinity, b)]
+    const counts = (noise: { weights: { weights: Float64Array; dropped: number } }) => ({ innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped })
+    if (torus.nx === reference[0] && torus.ny === reference[1]) {
+      const noise = coherentSpectralNoise(tc)
+      return { samples: downscaler.samplesFromSpectralNoise(input.samples, noise), coherence: { ...summary, ...counts(noise), isolated: false, noise: 'spectral' } }
+    }
+    const noise = coherentNoiseMatchingSpectrum(tc, reference)
+    return { samples: downscaler.samplesFromNoise(input.samples, () => noise), coherence: { ...summary, ...counts(noise), isolated: false, noise: 'spatial, matching the spectrum' } }
   }
   const noise = coherentWhiteNoise(tc)
   return {
     samples: downscaler.samplesFromNoise(input.samples, (w) => (w === 0 ? noise : coherentWhiteNoise({ ...tc, noiseSeed: windowSeed(tc.noiseSeed, w) }))),
-    coherence: { ...summary, innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped, isolated: false },
+    coherence: { ...summary, innovations: noise.weights.weights.length, droppedWeight: noise.weights.dropped, isolated: false, noise: 'spatial' },
   }
 }
 

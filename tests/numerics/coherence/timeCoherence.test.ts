@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { createDownscaler, type DownscalerSpec } from '../../../shared/numerics/grf/downscaler'
-import { coherentWhiteNoise, sideSplit } from '../../../shared/numerics/coherence/coherentNoise'
+import { coherentNoiseMatchingSpectrum, coherentSpectralNoise, coherentWhiteNoise, sideSplit } from '../../../shared/numerics/coherence/coherentNoise'
+import { torusSide } from '../../../shared/numerics/grf/circulantEmbedding'
 import { fitTimeScale } from '../../../shared/numerics/coherence/fitTimeScale'
 import { isIsolatedLead, leadCorrelation, leadNoiseWeights } from '../../../shared/numerics/coherence/leadNoiseWeights'
 import { sampleMember } from '../../../shared/numerics/pipeline/downscaleMember'
@@ -154,6 +155,70 @@ describe('time-coherent conditional samples', () => {
     const isolated = sampleMember({ ...input, timeCoherence: { ...tc(1), timeScaleHours: 1 } })
     expect(isolated.diagnostics.timeCoherence).toMatchObject({ isolated: true, innovations: 1 })
     expect(isolated.samples[0]).not.toEqual(a.samples[0])
+  })
+})
+
+describe('time-coherent noise drawn in the spectrum of a reference torus', () => {
+  const hours = [0, 6, 12], tau = 12, rho = Math.exp(-6 / tau)
+  const spectral = (t: number, noiseSeed = 21) => coherentSpectralNoise({ noiseSeed, leadHours: hours, leadIndex: t, timeScaleHours: tau })
+  const nx = 16, ny = 16, factor = 4 // fine 64 × 64; reference torus 128 × 128
+  const reference: [number, number] = [torusSide(64, Infinity, factor), torusSide(64, Infinity, factor)]
+  const field = (phase: number) => Float64Array.from({ length: nx * ny }, (_, k) => Math.sin(0.5 * (k % nx) + phase) + 0.7 * Math.cos(0.8 * Math.floor(k / nx) - phase))
+  const spec = (phase: number, lengthScale: number): DownscalerSpec => ({ coarse: field(phase), nx, ny, factor, kernel: { kernel: 'matern32', lengthScale, variance: 1 }, mean: 0 })
+  const residualCorrelations = (d0: ReturnType<typeof createDownscaler>, d1: ReturnType<typeof createDownscaler>, s0: Float64Array[], s1: Float64Array[]) => {
+    const m0 = d0.mean(), m1 = d1.mean()
+    return s0.map((a, k) => correlation(a.map((v, i) => v - m0[i]!), s1[k]!.map((v, i) => v - m1[i]!)))
+  }
+
+  it('unit variance per mode, lag correlation ρ between leads, nothing shared between torus sizes (sampling theory)', () => {
+    const n = 128 * 128
+    const at = (t: number, side = 128) => { const re = new Float64Array(side * side), im = new Float64Array(side * side); spectral(t)(0, re, im, side, side); return { re, im } }
+    const l0 = at(0), l1 = at(1)
+    const variance = l1.re.reduce((s, v) => s + v * v, 0) / n
+    expect(Math.abs(variance - 1)).toBeLessThan(4 * Math.SQRT2 / Math.sqrt(n))
+    expect(Math.abs(correlation(l0.re, l1.re) - rho)).toBeLessThan(4 * (1 - rho * rho) / Math.sqrt(n))
+    expect(Math.abs(correlation(l0.im, l1.im) - rho)).toBeLessThan(4 * (1 - rho * rho) / Math.sqrt(n))
+    expect(Math.abs(correlation(l0.re, l1.im))).toBeLessThan(4 / Math.sqrt(n))
+    const other = at(1, 64)
+    expect(Math.abs(correlation(l0.re.subarray(0, 64 * 64), other.re))).toBeLessThan(4 / 64)
+  })
+
+  it('on the reference torus, the matching spatial noise gives exactly the spectral draw (w = √M·IFFT(ξ))', () => {
+    const d = createDownscaler(spec(0, 3))
+    expect(d.diagnostics.torus).toEqual(reference)
+    const tc = { noiseSeed: 21, leadHours: hours, leadIndex: 1, timeScaleHours: tau }
+    const a = d.samplesFromSpectralNoise(4, coherentSpectralNoise(tc)), b = d.samplesFromNoise(4, coherentNoiseMatchingSpectrum(tc, reference))
+    for (let k = 0; k < 4; k++) for (let i = 0; i < a[k]!.length; i += 37) expect(b[k]![i]).toBeCloseTo(a[k]![i]!, 10)
+  })
+
+  it('residuals have the lag-1 correlation that was set; a lead on a doubled torus still shares most of it', () => {
+    const S = 24
+    const d0 = createDownscaler(spec(0, 3)), d1 = createDownscaler(spec(0.9, 3)), dLong = createDownscaler(spec(0.9, 20))
+    expect(dLong.diagnostics.torus).not.toEqual(reference) // enlarged by the positive-definiteness check
+    const s0 = d0.samplesFromSpectralNoise(S, spectral(0))
+    const same = residualCorrelations(d0, d1, s0, d1.samplesFromSpectralNoise(S, spectral(1)))
+    expect(standardError(same)).toBeLessThan(0.05)
+    expect(Math.abs(mean(same) - rho)).toBeLessThan(4 * standardError(same))
+    const matching = coherentNoiseMatchingSpectrum({ noiseSeed: 21, leadHours: hours, leadIndex: 1, timeScaleHours: tau }, reference)
+    const doubled = residualCorrelations(d0, dLong, s0, dLong.samplesFromNoise(S, matching))
+    // Different square-root kernels: not exact, as with two tori of the spatial streams (≈ 0.9 ρ there).
+    expect(mean(doubled)).toBeGreaterThan(0.7 * rho)
+    expect(mean(doubled)).toBeLessThan(rho + 4 * standardError(doubled))
+  })
+
+  it('the pipeline draws in the spectrum on the reference torus and keeps the spatial streams with regimes on', () => {
+    const rng = new Xoshiro128(5)
+    const rough = new Float64Array(nx * ny)
+    fillStandardNormal(rng, rough) // short correlation: the fitted ℓ keeps the reference torus
+    const input = { coarse: rough, nx, ny, factor, kernel: 'matern32' as const, samples: 3, seed: 1, spacingKm: 3 }
+    const tc = { leadIndex: 1, leadHours: hours, timeScaleHours: tau, noiseSeed: 77 }
+    const out = sampleMember({ ...input, timeCoherence: tc })
+    const torus = (out.diagnostics as { torus: number[] }).torus
+    expect(out.diagnostics.timeCoherence).toMatchObject({ noise: torus[0] === reference[0] && torus[1] === reference[1] ? 'spectral' : 'spatial, matching the spectrum', innovations: 2 })
+    expect(torus).toEqual(reference)
+    expect(out.blockMeanError).toBeLessThan(1e-12)
+    const windows = sampleMember({ ...input, regimes: 'windows', timeCoherence: tc })
+    expect(windows.diagnostics.timeCoherence).toMatchObject({ noise: 'spatial' })
   })
 })
 
