@@ -35,7 +35,6 @@ async function benchDatabase(): Promise<{ url: string; cluster: Cluster | null }
     url.pathname = `/${BENCH_DB}`
     return { url: url.toString(), cluster: null }
   }
-  // @ts-expect-error plain-JS helper shared with npm start / npm test (no type declarations)
   const { startCluster, resolveDataDir } = await import('../scripts/lib/postgres.mjs') as { startCluster: (o: object) => Cluster; resolveDataDir: (p: string) => string }
   const dataDir = resolveDataDir(join(ROOT, '.data', 'pg-bench'))
   const cluster = startCluster({ dataDir, port: Number(process.env.TESSERA_BENCH_PG_PORT ?? 54331), database: BENCH_DB, throwaway: true })
