@@ -42,8 +42,9 @@ const smtpPort = process.env.TESSERA_SMTP_STAND_IN_PORT ?? '2525'
 const workerEnv = production ? env : { ...env, TESSERA_SMTP_HOST: '127.0.0.1', TESSERA_SMTP_PORT: smtpPort }
 const children = [
   startChild('web', process.execPath, [SERVER_ENTRY], { env: serverEnv }),
-  ...(production ? [] : [startChild('mail', 'npx', ['tsx', 'scripts/smtp-stand-in.ts'], { env: { ...env, TESSERA_SMTP_STAND_IN_PORT: smtpPort } })]),
-  startChild('worker', 'npx', ['tsx', 'worker/index.ts'], { env: workerEnv }),
+  // Node itself with tsx's loader (not npx): one process per child, so stop()'s SIGTERM reaches it.
+  ...(production ? [] : [startChild('mail', process.execPath, ['--import', 'tsx', 'scripts/smtp-stand-in.ts'], { env: { ...env, TESSERA_SMTP_STAND_IN_PORT: smtpPort } })]),
+  startChild('worker', process.execPath, ['--import', 'tsx', 'worker/index.ts'], { env: workerEnv }),
 ]
 log(`Tessera is starting on http://localhost:${port} ${production ? '' : '(demo mode: accounts in README.md)'} — Ctrl-C stops it`)
 

@@ -30,6 +30,7 @@ export async function leadStructure(run: RunRow, placement: RunPlacement, leadIn
     majorKm: summary.major * g.spacingKm, minorKm: summary.minor * g.spacingKm,
     angleDegrees: (summary.angle * 180) / Math.PI,
     transform: transforms.length === 1 ? transforms[0]! : 'mixed',
+    anisotropySearched: rows.some((r) => r.anisotropy != null),
     ring,
   }
 }

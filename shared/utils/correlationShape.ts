@@ -15,6 +15,8 @@ export interface LeadStructure {
   angleDegrees: number
   /** Transform of the fits ('none' when ℓ is of the values themselves, else of the latent field; 'mixed'). */
   transform: string
+  /** Whether the run's fits searched for a stretched shape at all (anisotropy 'fit'). */
+  anisotropySearched: boolean
   /** The ellipse as a closed [lon, lat] ring. */
   ring: [number, number][]
 }

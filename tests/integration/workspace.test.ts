@@ -178,7 +178,7 @@ describe('products of a run', () => {
     try {
       const res = await call('GET', `/api/runs/${run.id}/products/summary?lead=0`, { cookie: cookies.forecaster })
       const st = res.body.structure
-      expect(st).toMatchObject({ members: 3, anisotropic: 2, transform: 'none' })
+      expect(st).toMatchObject({ members: 3, anisotropic: 2, transform: 'none', anisotropySearched: true })
       // Medians over the adopted members: ℓ₁ = (6 + 8)/2, ℓ₂ = (3 + 4)/2 fine cells of 5.5 km; angle = axial mean of 0.5 and 0.6 rad.
       expect(st.majorKm).toBeCloseTo(7 * 5.5, 9)
       expect(st.minorKm).toBeCloseTo(3.5 * 5.5, 9)
