@@ -3,9 +3,12 @@
  * server/ingest/types.ts RunSummary). Times arrive as ISO 8601 strings.
  */
 import type { KERNEL_CHOICES } from '#shared/schemas/runs'
+import type { RunContents } from '#shared/types/runContents'
 import type { AnisotropyFit } from '#shared/numerics/fit/fitCoarse'
 import type { RegimeSummary } from '#shared/numerics/pipeline/downscaleMember'
 import type { TransformSummary } from '#shared/numerics/transform/latentCoarse'
+
+export type { RunContents, RunGridSummary } from '#shared/types/runContents'
 
 export type RunStatus = 'staged' | 'ready' | 'queued' | 'running' | 'completed' | 'failed' | 'cancelled'
 export type TaskStatus = 'pending' | 'running' | 'done' | 'failed' | 'cancelled'
@@ -13,33 +16,12 @@ export type KernelChoice = (typeof KERNEL_CHOICES)[number]
 export type FittedKernel = Exclude<KernelChoice, 'auto'> | 'matern'
 export type FitMethod = 'exact' | 'kronecker' | 'whittle'
 
-export interface RunGridSummary { nx: number; ny: number; spacingKm: number; dxKm: number; dyKm: number; crs: string }
-
 export interface RunSettings {
   factor: number; samplesPerMember: number; kernel: KernelChoice; seed: number
   transform?: 'auto' | 'none' | 'boxcox' | 'log' | 'censored'; anisotropy?: 'off' | 'fit'; regimes?: 'off' | 'windows'
   timeCoherence?: boolean; timeScaleHours?: number
 }
 
-/** What the reader found in a file: shared by the upload preview and the stored run. */
-export interface RunContents {
-  format: string
-  variable: string
-  standardName: string | null
-  /** Units exactly as in the file. */
-  units: string
-  canonicalUnits: string
-  displayUnits: string
-  members: number
-  /** Valid times, ISO 8601 UTC. */
-  leadTimes: string[]
-  forecastPeriodsHours: number[]
-  referenceTime: string | null
-  grid: RunGridSummary
-  /** [west, south, east, north], degrees. */
-  extent: [number, number, number, number]
-  notes: string[]
-}
 
 /** A run as lists and pages show it (no large arrays). */
 export interface RunSummaryDto extends RunContents {

@@ -5,6 +5,8 @@
  * row-major ny×nx (cell (i, j) at j·nx + i), j = 0 the southernmost row (smallest y), i = 0 the
  * westernmost column (smallest x); values in canonical units, NaN = missing.
  */
+import type { RunContents } from '../../shared/types/runContents'
+
 export type EnsembleFormat = 'netcdf-classic' | 'netcdf-4' | 'geotiff' | 'tessera-json'
 
 /** Horizontal grid: 1-D coordinates of cell centres, both strictly increasing. */
@@ -73,22 +75,10 @@ export interface ReadOptions {
 }
 
 /** The preview shown before a forecaster confirms an upload (and printed by `tessera inspect`). */
-export interface RunSummary {
+export interface RunSummary extends RunContents {
   format: EnsembleFormat
-  variable: string
-  standardName: string | null
-  units: string
-  canonicalUnits: string
-  displayUnits: string
-  members: number
-  leadTimes: string[]
-  forecastPeriodsHours: number[]
-  referenceTime: string | null
   heightM?: number
   cellMethods?: string
-  grid: { nx: number; ny: number; spacingKm: number; dxKm: number; dyKm: number; crs: string }
-  extent: [number, number, number, number]
   /** First member, first lead time, canonical units; missing cells ignored. */
   stats: { min: number; max: number; mean: number; missingCells: number }
-  notes: string[]
 }

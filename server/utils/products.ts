@@ -7,6 +7,7 @@
  * of a cell is every cell whose centre lies within R (Euclidean) of its centre, R = radius km /
  * fine spacing km, truncated at the grid edge; percentiles are type 7; spread divides by N − 1.
  */
+import { createError } from 'h3'
 import { diskChords } from '../../shared/numerics/ensemble/disk'
 import { probabilityClasses, type ProbabilityClasses } from '../../shared/numerics/ensemble/probabilityClasses'
 import { samplePercentiles } from '../../shared/numerics/ensemble/areaProducts'
@@ -300,6 +301,13 @@ export function renderProductImage(run: RunRow, entry: LeadSamples, placement: R
     boundaries: options.boundaries ?? true, background: options.background, lines: options.lines,
   })
   return { png: encodePng(data, frame.width, frame.height), frame, legend, renderMs: Math.round(performance.now() - started) }
+}
+
+/** Position of `member` among the lead time's loaded members; 404 when it has no finished samples there. */
+export function loadedMemberSlot(entry: LeadSamples, member: number): number {
+  const k = entry.memberIndices.indexOf(member)
+  if (k < 0) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `Member ${member} has no finished samples at lead time ${entry.leadIndex + 1}.` })
+  return k
 }
 
 /** A single field (coarse member or one sample) on the lead time's value classes, as a PNG. */

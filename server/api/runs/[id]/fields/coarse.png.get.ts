@@ -6,8 +6,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, runLeadParamsSchema.parse)
   const q = await getValidatedQuery(event, coarseFieldQuerySchema.parse)
   const { run, placement, entry } = await productContext(id, q.lead)
-  const k = entry.memberIndices.indexOf(q.member)
-  if (k < 0) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `Member ${q.member} has no finished samples at lead time ${q.lead + 1}.` })
+  const k = loadedMemberSlot(entry, q.member)
   const image = renderFieldImage(run, entry, placement, { coarse: entry.coarse[k]! }, q.width)
   setResponseHeaders(event, imageHeaders(image.frame, `Coarse member ${q.member + 1}, ${validTimeText(run, q.lead)} (${run.displayUnits})`, image.classes))
   return image.png

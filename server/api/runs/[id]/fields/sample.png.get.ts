@@ -6,8 +6,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, runLeadParamsSchema.parse)
   const q = await getValidatedQuery(event, sampleFieldQuerySchema.parse)
   const { run, placement, entry } = await productContext(id, q.lead)
-  const k = entry.memberIndices.indexOf(q.member)
-  if (k < 0) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `Member ${q.member} has no finished samples at lead time ${q.lead + 1}.` })
+  const k = loadedMemberSlot(entry, q.member)
   const count = entry.sampleStart[k + 1]! - entry.sampleStart[k]!
   if (q.sample >= count) throw createError({ statusCode: 404, statusMessage: 'Not Found', message: `Member ${q.member} has ${count} samples (0–${count - 1}); there is no sample ${q.sample}.` })
   const image = renderFieldImage(run, entry, placement, { fine: entry.plan.stack.members[entry.sampleStart[k]! + q.sample]! }, q.width)
